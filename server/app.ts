@@ -1,0 +1,112 @@
+import express, { type Express } from 'express';
+import session from 'express-session';
+import helmet from 'helmet';
+import type { Database } from './db/client';
+import type { Config } from './config';
+import { DbSessionStore } from './auth/session-store';
+import { createPassport } from './auth/passport';
+import { csrfProtection, refuseCrossSite } from './middleware/csrf';
+import { apiNotFound, errorHandler } from './middleware/error-handler';
+import { sessionLifetime } from './middleware/session-lifetime';
+import { assertEveryRouteRuled } from './route-table';
+import { healthRoutes } from './routes/health';
+import { authRoutes } from './routes/auth';
+import { bikeRoutes } from './routes/bikes';
+import { referenceRoutes } from './routes/reference';
+import { adminUserRoutes } from './routes/admin-users';
+
+export interface AppDeps {
+  database: Database;
+  config: Config;
+  sessionSecret: string;
+  /** The clock, so tests can move time. */
+  now?: () => Date;
+  /** Serves the client (production build or Vite in middleware mode), mounted after the API. */
+  client?: (app: Express) => void;
+}
+
+export interface AppContext {
+  database: Database;
+  config: Config;
+  sessions: DbSessionStore;
+  now: () => Date;
+}
+
+export function createApp(deps: AppDeps): Express {
+  const { database, config } = deps;
+  const ctx: AppContext = {
+    database,
+    config,
+    sessions: new DbSessionStore(database.db),
+    now: deps.now ?? (() => new Date()),
+  };
+  const app = express();
+  app.disable('x-powered-by');
+  if (config.TRUST_PROXY) app.set('trust proxy', /^\d+$/.test(config.TRUST_PROXY) ? Number(config.TRUST_PROXY) : config.TRUST_PROXY);
+
+  const dev = process.env.NODE_ENV === 'development';
+  app.use(
+    helmet({
+      // Vite's dev preamble is an inline script: the policy is on everywhere but in development.
+      contentSecurityPolicy: dev
+        ? false
+        : {
+            useDefaults: true,
+            directives: {
+              defaultSrc: ["'self'"],
+              scriptSrc: ["'self'"],
+              styleSrc: ["'self'", "'unsafe-inline'"],
+              imgSrc: ["'self'", 'data:', 'blob:'],
+              fontSrc: ["'self'"],
+              connectSrc: ["'self'"],
+              objectSrc: ["'none'"],
+              frameAncestors: ["'none'"],
+              upgradeInsecureRequests: config.COOKIE_SECURE ? [] : null,
+            },
+          },
+      strictTransportSecurity: config.COOKIE_SECURE,
+    }),
+  );
+
+  const api = express.Router();
+  api.use(express.json({ limit: '1mb' }));
+  api.use(
+    session({
+      name: 'lashline.sid',
+      secret: deps.sessionSecret,
+      store: ctx.sessions,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: {
+        httpOnly: true,
+        sameSite: 'lax',
+        secure: config.COOKIE_SECURE,
+        maxAge: config.SESSION_IDLE_MINUTES * 60_000,
+      },
+    }),
+  );
+  api.use(sessionLifetime(ctx));
+  const passport = createPassport(database.db);
+  api.use(passport.initialize());
+  api.use(passport.session());
+  api.use(refuseCrossSite);
+  api.use(csrfProtection);
+
+  api.use('/health', healthRoutes(ctx));
+  api.use('/auth', authRoutes(ctx, passport));
+  api.use('/bikes', bikeRoutes(ctx));
+  api.use('/', referenceRoutes(ctx));
+  api.use('/admin/users', adminUserRoutes(ctx));
+  api.use(apiNotFound);
+
+  app.use('/api', api);
+  deps.client?.(app);
+  app.use(
+    errorHandler((e, req) => {
+      if (config.LOG_LEVEL !== 'silent') console.error(`[error] ${req.method} ${req.originalUrl}`, e);
+    }),
+  );
+  assertEveryRouteRuled(app);
+  return app;
+}

@@ -1,0 +1,65 @@
+import { eq, lt } from 'drizzle-orm';
+import session from 'express-session';
+import type { Db } from '../db/client';
+import { sessions } from '../db/schema';
+
+type Callback = (err?: unknown, value?: unknown) => void;
+const DEFAULT_TTL_MS = 30 * 60_000;
+
+/** Sessions in the database (same schema on PGlite and PostgreSQL), so every app instance sees them. */
+export class DbSessionStore extends session.Store {
+  constructor(private readonly db: Db) {
+    super();
+  }
+
+  private expiry(sess: session.SessionData) {
+    const ms = sess.cookie?.expires ? new Date(sess.cookie.expires).getTime() : Date.now() + DEFAULT_TTL_MS;
+    return new Date(ms);
+  }
+
+  private static userId(sess: session.SessionData): string | null {
+    const id = (sess as { passport?: { user?: unknown } }).passport?.user;
+    return typeof id === 'string' ? id : null;
+  }
+
+  override get(sid: string, cb: (err: unknown, sess?: session.SessionData | null) => void) {
+    this.db
+      .select()
+      .from(sessions)
+      .where(eq(sessions.sid, sid))
+      .then(([row]) => cb(null, row && row.expire.getTime() > Date.now() ? (row.sess as session.SessionData) : null), cb);
+  }
+
+  override set(sid: string, sess: session.SessionData, cb?: Callback) {
+    const row = { sid, sess, expire: this.expiry(sess), userId: DbSessionStore.userId(sess) };
+    this.db
+      .insert(sessions)
+      .values(row)
+      .onConflictDoUpdate({ target: sessions.sid, set: { sess: row.sess, expire: row.expire, userId: row.userId } })
+      .then(() => cb?.(), (e) => cb?.(e));
+  }
+
+  override touch(sid: string, sess: session.SessionData, cb?: Callback) {
+    this.db
+      .update(sessions)
+      .set({ expire: this.expiry(sess) })
+      .where(eq(sessions.sid, sid))
+      .then(() => cb?.(), (e) => cb?.(e));
+  }
+
+  override destroy(sid: string, cb?: Callback) {
+    this.db
+      .delete(sessions)
+      .where(eq(sessions.sid, sid))
+      .then(() => cb?.(), (e) => cb?.(e));
+  }
+
+  /** Ends every session of a user (sign-out everywhere, a disabled account). */
+  async destroyForUser(userId: string) {
+    await this.db.delete(sessions).where(eq(sessions.userId, userId));
+  }
+
+  async prune() {
+    await this.db.delete(sessions).where(lt(sessions.expire, new Date()));
+  }
+}

@@ -1,0 +1,38 @@
+import { z } from 'zod';
+
+const bool = z
+  .enum(['1', '0', 'true', 'false', 'yes', 'no', ''])
+  .transform((v) => v === '1' || v === 'true' || v === 'yes');
+
+const ConfigSchema = z.object({
+  PORT: z.coerce.number().int().min(0).max(65535).default(3000),
+  HOST: z.string().default('127.0.0.1'),
+  DATA_DIR: z.string().default('./data'),
+  DATABASE_URL: z.string().optional(),
+  SESSION_SECRET: z.string().min(16, 'SESSION_SECRET needs at least 16 characters.').optional(),
+  SESSION_IDLE_MINUTES: z.coerce.number().positive().default(30),
+  SESSION_ABSOLUTE_HOURS: z.coerce.number().positive().default(12),
+  TRUST_PROXY: z.string().optional(),
+  COOKIE_SECURE: bool.default(false),
+  LOGIN_MAX_PER_IP: z.coerce.number().int().positive().default(30),
+  LOGIN_MAX_PER_ACCOUNT: z.coerce.number().int().positive().default(10),
+  LOGIN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
+  DEMO_PASSWORD: z.string().min(8).default('saltmarsh-demo-26'),
+  PUBLIC_URL: z.string().optional(),
+  LOG_LEVEL: z.enum(['silent', 'error', 'info']).default('info'),
+});
+
+export type Config = z.infer<typeof ConfigSchema>;
+
+export function readConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const parsed = ConfigSchema.safeParse(env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Lashline cannot start: the environment is not right.\n${lines.join('\n')}`);
+  }
+  return parsed.data;
+}
+
+export function testConfig(over: Partial<Config> = {}): Config {
+  return { ...readConfig({}), LOG_LEVEL: 'silent', SESSION_SECRET: 'test-secret-test-secret', ...over };
+}

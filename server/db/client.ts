@@ -1,0 +1,52 @@
+import { mkdirSync } from 'node:fs';
+import { PGlite } from '@electric-sql/pglite';
+import type { PgDatabase, PgQueryResultHKT } from 'drizzle-orm/pg-core';
+import { drizzle as drizzlePglite } from 'drizzle-orm/pglite';
+import { migrate as migratePglite } from 'drizzle-orm/pglite/migrator';
+import { drizzle as drizzlePg } from 'drizzle-orm/node-postgres';
+import { migrate as migratePg } from 'drizzle-orm/node-postgres/migrator';
+import pg from 'pg';
+import * as schema from './schema';
+
+export type Db = PgDatabase<PgQueryResultHKT, typeof schema>;
+export type DbKind = 'pglite' | 'postgres';
+
+export interface Database {
+  db: Db;
+  kind: DbKind;
+  /** The PGlite instance when embedded (for backups and data-directory dumps). */
+  pglite?: PGlite;
+  close(): Promise<void>;
+}
+
+export const MIGRATIONS_FOLDER = new URL('../../drizzle', import.meta.url).pathname;
+
+export interface OpenOptions {
+  databaseUrl?: string;
+  /** Directory for an on-disk PGlite; omitted means in memory. */
+  dataDir?: string;
+  /** A dumped, already-migrated PGlite data directory to start from (tests). */
+  loadDataDir?: Blob | File;
+  migrate?: boolean;
+}
+
+export async function openDatabase(opts: OpenOptions): Promise<Database> {
+  if (opts.databaseUrl) {
+    const pool = new pg.Pool({ connectionString: opts.databaseUrl, max: 10 });
+    const db = drizzlePg({ client: pool, schema }) as unknown as Db;
+    if (opts.migrate !== false) await migratePg(db as never, { migrationsFolder: MIGRATIONS_FOLDER });
+    return { db, kind: 'postgres', close: () => pool.end() };
+  }
+  if (opts.dataDir) mkdirSync(opts.dataDir, { recursive: true });
+  const client = opts.dataDir
+    ? new PGlite(`${opts.dataDir}/pglite`)
+    : new PGlite(opts.loadDataDir ? { loadDataDir: opts.loadDataDir } : {});
+  await client.waitReady;
+  const db = drizzlePglite({ client, schema }) as unknown as Db;
+  if (opts.migrate !== false) await migratePglite(db as never, { migrationsFolder: MIGRATIONS_FOLDER });
+  return { db, kind: 'pglite', pglite: client, close: () => client.close() };
+}
+
+/** A transaction handle; code that must run inside or outside a transaction takes `DbOrTx`. */
+export type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
+export type DbOrTx = Db | Tx;

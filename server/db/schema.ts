@@ -1,0 +1,343 @@
+import { sql } from 'drizzle-orm';
+import {
+  bigserial,
+  boolean,
+  date,
+  doublePrecision,
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from 'drizzle-orm/pg-core';
+
+// Clearances and shim sizes are stored in whole micrometres so that the
+// arithmetic on them is exact (0.30 − 0.22 mm must be 80 µm, not 79.999…).
+
+const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
+
+export const sites = pgTable('sites', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  name: text('name').notNull().unique(),
+  timeZone: text('time_zone').notNull().default('Europe/London'),
+  bays: integer('bays').notNull().default(1),
+  createdAt: createdAt(),
+});
+
+export const users = pgTable('users', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  email: text('email').notNull().unique(),
+  name: text('name').notNull(),
+  role: text('role', { enum: ['admin', 'manager', 'technician', 'desk'] }).notNull(),
+  passwordHash: text('password_hash'),
+  disabled: boolean('disabled').notNull().default(false),
+  // A secret for the calendar feed; stored hashed so a leaked table reveals no feed address.
+  calendarTokenHash: text('calendar_token_hash'),
+  inviteTokenHash: text('invite_token_hash'),
+  inviteExpiresAt: timestamp('invite_expires_at', { withTimezone: true }),
+  createdAt: createdAt(),
+});
+
+export const userSites = pgTable(
+  'user_sites',
+  {
+    userId: uuid('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+  },
+  (t) => [primaryKey({ columns: [t.userId, t.siteId] })],
+);
+
+export const bikeModels = pgTable('bike_models', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  name: text('name').notNull().unique(),
+  cylinders: integer('cylinders').notNull(),
+  intakeValvesPerCylinder: integer('intake_valves_per_cylinder').notNull(),
+  exhaustValvesPerCylinder: integer('exhaust_valves_per_cylinder').notNull(),
+  adjuster: text('adjuster', { enum: ['shim-under-bucket', 'screw-and-locknut'] }).notNull(),
+  intakeMinUm: integer('intake_min_um').notNull(),
+  intakeMaxUm: integer('intake_max_um').notNull(),
+  exhaustMinUm: integer('exhaust_min_um').notNull(),
+  exhaustMaxUm: integer('exhaust_max_um').notNull(),
+  shimMinUm: integer('shim_min_um'),
+  shimMaxUm: integer('shim_max_um'),
+  shimStepUm: integer('shim_step_um'),
+  createdAt: createdAt(),
+});
+
+export const serviceItems = pgTable(
+  'service_items',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    modelId: uuid('model_id').notNull().references(() => bikeModels.id, { onDelete: 'cascade' }),
+    name: text('name').notNull(),
+    category: text('category', {
+      enum: ['oil', 'valves', 'chain', 'brakes', 'tyres', 'brake-fluid', 'inspection', 'other'],
+    }).notNull(),
+    everyKm: integer('every_km'),
+    everyMonths: integer('every_months'),
+    firstAtKm: integer('first_at_km'),
+    rrule: text('rrule'),
+    safetyCritical: boolean('safety_critical').notNull().default(false),
+    estimatedMinutes: integer('estimated_minutes').notNull().default(30),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('service_items_model_name').on(t.modelId, t.name)],
+);
+
+export const bikes = pgTable(
+  'bikes',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    fleetNumber: text('fleet_number').notNull().unique(),
+    vin: text('vin'),
+    registration: text('registration'),
+    modelId: uuid('model_id').notNull().references(() => bikeModels.id),
+    siteId: uuid('site_id').notNull().references(() => sites.id),
+    odometerUnit: text('odometer_unit', { enum: ['km', 'mi'] }).notNull().default('km'),
+    inServiceDate: date('in_service_date', { mode: 'string' }).notNull(),
+    inServiceOdometer: doublePrecision('in_service_odometer').notNull().default(0),
+    status: text('status', { enum: ['in_service', 'in_workshop', 'out_of_service', 'retired'] })
+      .notNull()
+      .default('in_service'),
+    statusReason: text('status_reason'),
+    createdAt: createdAt(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('bikes_site').on(t.siteId), index('bikes_model').on(t.modelId)],
+);
+
+// Every odometer value as typed (value + unit) and as continuous distance in km,
+// which keeps adding up across a replaced or reset odometer.
+export const odometerReadings = pgTable(
+  'odometer_readings',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    bikeId: uuid('bike_id').notNull().references(() => bikes.id, { onDelete: 'cascade' }),
+    date: date('date', { mode: 'string' }).notNull(),
+    value: doublePrecision('value').notNull(),
+    unit: text('unit', { enum: ['km', 'mi'] }).notNull(),
+    odometerKm: doublePrecision('odometer_km').notNull(),
+    reset: boolean('reset').notNull().default(false),
+    source: text('source', { enum: ['check-in', 'service', 'import', 'setup'] }).notNull().default('check-in'),
+    recordedBy: uuid('recorded_by').references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index('odometer_readings_bike_date').on(t.bikeId, t.date, t.odometerKm)],
+);
+
+export const sessions = pgTable(
+  'sessions',
+  {
+    sid: text('sid').primaryKey(),
+    sess: jsonb('sess').notNull(),
+    userId: uuid('user_id'),
+    expire: timestamp('expire', { withTimezone: true }).notNull(),
+  },
+  (t) => [index('sessions_expire').on(t.expire), index('sessions_user').on(t.userId)],
+);
+
+export const auditLog = pgTable(
+  'audit_log',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+    userId: uuid('user_id').references(() => users.id),
+    action: text('action').notNull(),
+    entity: text('entity').notNull(),
+    entityId: text('entity_id'),
+    changes: jsonb('changes'),
+  },
+  (t) => [index('audit_log_entity').on(t.entity, t.entityId)],
+);
+
+export const settings = pgTable('settings', {
+  key: text('key').primaryKey(),
+  value: jsonb('value').notNull(),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().default(sql`now()`),
+});
+
+// ── Service record, due state and work ───────────────────────────────────────
+
+export const serviceRecords = pgTable(
+  'service_records',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    bikeId: uuid('bike_id').notNull().references(() => bikes.id, { onDelete: 'cascade' }),
+    serviceItemId: uuid('service_item_id').notNull().references(() => serviceItems.id, { onDelete: 'cascade' }),
+    date: date('date', { mode: 'string' }).notNull(),
+    odometerKm: doublePrecision('odometer_km').notNull(),
+    taskId: uuid('task_id'),
+    doneBy: uuid('done_by').references(() => users.id),
+    notes: text('notes'),
+    createdAt: createdAt(),
+  },
+  (t) => [index('service_records_bike_item').on(t.bikeId, t.serviceItemId, t.date)],
+);
+
+/** The latest due computation per bike and service item, written by the scan and by check-ins. */
+export const dueStates = pgTable(
+  'due_states',
+  {
+    bikeId: uuid('bike_id').notNull().references(() => bikes.id, { onDelete: 'cascade' }),
+    serviceItemId: uuid('service_item_id').notNull().references(() => serviceItems.id, { onDelete: 'cascade' }),
+    status: text('status', { enum: ['ok', 'soon', 'overdue'] }).notNull(),
+    dueAtKm: doublePrecision('due_at_km'),
+    dueByDate: date('due_by_date', { mode: 'string' }),
+    projectedDateForKm: date('projected_date_for_km', { mode: 'string' }),
+    dueDate: date('due_date', { mode: 'string' }),
+    trigger: text('trigger', { enum: ['km', 'calendar'] }),
+    currentKm: doublePrecision('current_km').notNull(),
+    remainingKm: doublePrecision('remaining_km'),
+    remainingDays: integer('remaining_days'),
+    usageKmPerDay: doublePrecision('usage_km_per_day'),
+    baselineDate: date('baseline_date', { mode: 'string' }).notNull(),
+    baselineKm: doublePrecision('baseline_km').notNull(),
+    computedAt: timestamp('computed_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.bikeId, t.serviceItemId] }), index('due_states_due_date').on(t.dueDate)],
+);
+
+export const serviceTasks = pgTable(
+  'service_tasks',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    bikeId: uuid('bike_id').notNull().references(() => bikes.id, { onDelete: 'cascade' }),
+    serviceItemId: uuid('service_item_id').notNull().references(() => serviceItems.id, { onDelete: 'cascade' }),
+    // One task per due cycle: the cycle is named by the baseline it counts from.
+    cycleKey: text('cycle_key').notNull(),
+    status: text('status', { enum: ['open', 'in_progress', 'done', 'cancelled'] }).notNull().default('open'),
+    origin: text('origin', { enum: ['due-scan', 'trend', 'manual'] }).notNull().default('due-scan'),
+    assigneeId: uuid('assignee_id').references(() => users.id),
+    dueDate: date('due_date', { mode: 'string' }),
+    estimatedMinutes: integer('estimated_minutes').notNull().default(30),
+    note: text('note'),
+    version: integer('version').notNull().default(1),
+    raisedAt: timestamp('raised_at', { withTimezone: true }).notNull().defaultNow(),
+    startedAt: timestamp('started_at', { withTimezone: true }),
+    closedAt: timestamp('closed_at', { withTimezone: true }),
+    closedBy: uuid('closed_by').references(() => users.id),
+  },
+  (t) => [
+    uniqueIndex('service_tasks_cycle').on(t.bikeId, t.serviceItemId, t.cycleKey),
+    index('service_tasks_assignee').on(t.assigneeId, t.status),
+  ],
+);
+
+export const defects = pgTable(
+  'defects',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    bikeId: uuid('bike_id').notNull().references(() => bikes.id, { onDelete: 'cascade' }),
+    category: text('category', { enum: ['brakes', 'tyres', 'engine', 'chain', 'lights', 'bodywork', 'other'] }).notNull(),
+    text: text('text').notNull(),
+    safetyCritical: boolean('safety_critical').notNull().default(false),
+    reportedBy: uuid('reported_by').references(() => users.id),
+    reportedAt: timestamp('reported_at', { withTimezone: true }).notNull().defaultNow(),
+    resolvedAt: timestamp('resolved_at', { withTimezone: true }),
+  },
+  (t) => [index('defects_bike').on(t.bikeId)],
+);
+
+/** Claimed once per job and time slot by whichever instance gets there first. */
+export const jobRuns = pgTable(
+  'job_runs',
+  {
+    job: text('job').notNull(),
+    slot: text('slot').notNull(),
+    startedAt: timestamp('started_at', { withTimezone: true }).notNull().defaultNow(),
+    finishedAt: timestamp('finished_at', { withTimezone: true }),
+    result: jsonb('result'),
+  },
+  (t) => [primaryKey({ columns: [t.job, t.slot] })],
+);
+
+export const outbox = pgTable(
+  'outbox',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    // e.g. "digest:2026-W49:<user id>": the same digest is never queued twice for one person.
+    dedupeKey: text('dedupe_key').notNull().unique(),
+    to: text('to').notNull(),
+    subject: text('subject').notNull(),
+    text: text('text').notNull(),
+    html: text('html').notNull(),
+    status: text('status', { enum: ['pending', 'sent', 'failed'] }).notNull().default('pending'),
+    attempts: integer('attempts').notNull().default(0),
+    nextAttemptAt: timestamp('next_attempt_at', { withTimezone: true }).notNull().defaultNow(),
+    lastError: text('last_error'),
+    createdAt: createdAt(),
+    sentAt: timestamp('sent_at', { withTimezone: true }),
+  },
+  (t) => [index('outbox_pending').on(t.status, t.nextAttemptAt)],
+);
+
+/** What the built-in mail catcher received when no SMTP server is configured. */
+export const caughtMail = pgTable('caught_mail', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  to: text('to').notNull(),
+  from: text('from').notNull(),
+  subject: text('subject').notNull(),
+  raw: text('raw').notNull(),
+  receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
+// ── Valve work and shim stock ────────────────────────────────────────────────
+
+export const valveChecks = pgTable(
+  'valve_checks',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    bikeId: uuid('bike_id').notNull().references(() => bikes.id, { onDelete: 'cascade' }),
+    taskId: uuid('task_id').references(() => serviceTasks.id),
+    date: date('date', { mode: 'string' }).notNull(),
+    odometerKm: doublePrecision('odometer_km').notNull(),
+    checkedBy: uuid('checked_by').references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index('valve_checks_bike').on(t.bikeId, t.odometerKm)],
+);
+
+export const valveReadings = pgTable(
+  'valve_readings',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    checkId: uuid('check_id').notNull().references(() => valveChecks.id, { onDelete: 'cascade' }),
+    cylinder: integer('cylinder').notNull(),
+    side: text('side', { enum: ['intake', 'exhaust'] }).notNull(),
+    position: integer('position').notNull(),
+    asFoundUm: integer('as_found_um').notNull(),
+    asLeftUm: integer('as_left_um'),
+    shimBeforeUm: integer('shim_before_um'),
+    shimAfterUm: integer('shim_after_um'),
+    method: text('method', { enum: ['feeler', 'direct'] }).notNull().default('feeler'),
+  },
+  (t) => [uniqueIndex('valve_readings_valve').on(t.checkId, t.cylinder, t.side, t.position)],
+);
+
+export const shimStock = pgTable(
+  'shim_stock',
+  {
+    siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+    sizeUm: integer('size_um').notNull(),
+    condition: text('condition', { enum: ['new', 'used'] }).notNull(),
+    count: integer('count').notNull().default(0),
+    minCount: integer('min_count').notNull().default(0),
+  },
+  (t) => [primaryKey({ columns: [t.siteId, t.sizeUm, t.condition] })],
+);
+
+export const stockMovements = pgTable('stock_movements', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+  sizeUm: integer('size_um').notNull(),
+  condition: text('condition', { enum: ['new', 'used'] }).notNull(),
+  delta: integer('delta').notNull(),
+  reason: text('reason').notNull(),
+  taskId: uuid('task_id'),
+  by: uuid('by').references(() => users.id),
+  at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+});

@@ -1,0 +1,89 @@
+import { createServer } from 'node:http';
+import { existsSync } from 'node:fs';
+import { resolve } from 'node:path';
+import express, { type Express } from 'express';
+import { readConfig } from './config';
+import { openDatabase } from './db/client';
+import { DataDirLockedError, lockDataDir } from './db/data-dir-lock';
+import { createApp } from './app';
+import { sessionSecret } from './secrets';
+import { seedDemo } from './demo/seed';
+import { needsSetup } from './services/accounts';
+
+const args = new Set(process.argv.slice(2));
+const dev = args.has('--dev');
+if (dev) process.env.NODE_ENV = 'development';
+
+async function main() {
+  const config = readConfig();
+  const dataDir = resolve(config.DATA_DIR);
+  let unlock = () => {};
+  if (!config.DATABASE_URL) {
+    try {
+      unlock = lockDataDir(dataDir);
+    } catch (e) {
+      if (e instanceof DataDirLockedError) {
+        console.error(e.message);
+        process.exit(2);
+      }
+      throw e;
+    }
+  }
+  const database = await openDatabase({ databaseUrl: config.DATABASE_URL, dataDir: config.DATABASE_URL ? undefined : dataDir });
+  if (args.has('--demo') && (await needsSetup(database.db))) {
+    const summary = await seedDemo(database.db, { password: config.DEMO_PASSWORD });
+    console.log(`Demo scenario loaded: ${summary}`);
+  }
+  const httpServer = createServer();
+  const app = createApp({
+    database,
+    config,
+    sessionSecret: await sessionSecret(database.db, config.SESSION_SECRET),
+    client: dev ? undefined : serveBuiltClient,
+  });
+  if (dev) await mountVite(app, httpServer);
+  httpServer.on('request', app);
+  httpServer.listen(config.PORT, config.HOST, () => {
+    const where = config.DATABASE_URL ? 'PostgreSQL' : `embedded PGlite in ${dataDir}`;
+    console.log(`Lashline listening on http://${config.HOST}:${(httpServer.address() as { port: number }).port} (${where})`);
+  });
+
+  let stopping = false;
+  const stop = async (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    console.log(`${signal}: finishing requests in flight, then closing the database.`);
+    const force = setTimeout(() => {
+      console.error('Requests still open after 10 s; closing anyway.');
+      httpServer.closeAllConnections();
+    }, 10_000);
+    force.unref();
+    await new Promise<void>((r) => httpServer.close(() => r()));
+    await database.close();
+    unlock();
+    process.exit(0);
+  };
+  process.on('SIGTERM', () => void stop('SIGTERM'));
+  process.on('SIGINT', () => void stop('SIGINT'));
+}
+
+function serveBuiltClient(app: Express) {
+  const dist = resolve('dist');
+  if (!existsSync(`${dist}/index.html`)) {
+    console.warn('No client build in dist/: run `npm run build` first. The API still answers under /api.');
+    return;
+  }
+  app.use(express.static(dist, { index: false, maxAge: '1h' }));
+  app.get('/{*splat}', (_req, res) => res.sendFile(`${dist}/index.html`));
+}
+
+async function mountVite(app: Express, httpServer: ReturnType<typeof createServer>) {
+  const { createServer: createVite } = await import('vite');
+  const vite = await createVite({ server: { middlewareMode: true, hmr: { server: httpServer } }, appType: 'spa' });
+  app.use(vite.middlewares);
+}
+
+main().catch((e) => {
+  console.error(e instanceof Error ? e.message : e);
+  process.exit(1);
+});

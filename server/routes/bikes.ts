@@ -1,0 +1,130 @@
+import { Router } from 'express';
+import { eq } from 'drizzle-orm';
+import type { AppContext } from '../app';
+import { currentUser, requireRole, signedIn } from '../middleware/auth';
+import { validate } from '../middleware/validate';
+import { bikeModels, bikes } from '../db/schema';
+import { IdParamsSchema } from '../../shared/schemas/common';
+import {
+  BikeCreateSchema,
+  BikeListQuerySchema,
+  BikeStatusChangeSchema,
+  BikeUpdateSchema,
+  type BikeCreate,
+  type BikeListQuery,
+  type BikeStatusChange,
+  type BikeUpdate,
+} from '../../shared/schemas/bikes';
+import { canSeeSite } from '../../shared/domain/policies';
+import { audit, diff } from '../audit';
+import { badRequest, conflict, forbidden, notFound } from '../http-error';
+import { fleetNumberTaken, getBike, listBikes, readingsOf } from '../services/bikes';
+import { recordCheckIn } from '../services/check-in';
+import { listDue } from '../services/due-list';
+import { rideVerdict } from '../services/ride-check';
+import { CheckInSchema, type CheckIn } from '../../shared/schemas/due';
+
+const fleetTaken = (n: string) =>
+  conflict(`Fleet number ${n} is already on another bike. Fleet numbers must be unique.`, [
+    { path: 'fleetNumber', message: 'Already in use.' },
+  ]);
+
+export function bikeRoutes(ctx: AppContext) {
+  const r = Router();
+  const db = ctx.database.db;
+
+  async function checkRefs(user: Express.User, modelId?: string, siteId?: string) {
+    if (siteId && !canSeeSite(user, siteId)) throw forbidden('You can only add bikes to your own sites.');
+    if (modelId) {
+      const [m] = await db.select({ id: bikeModels.id }).from(bikeModels).where(eq(bikeModels.id, modelId));
+      if (!m) throw badRequest('Choose a model from the list.', [{ path: 'modelId', message: 'Unknown model.' }]);
+    }
+  }
+
+  r.get('/', signedIn(), validate({ query: BikeListQuerySchema }), async (req, res) => {
+    res.json({ items: await listBikes(db, currentUser(req).siteIds, req.valid.query as BikeListQuery) });
+  });
+
+  r.get('/:id', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
+    const { id } = req.valid.params as { id: string };
+    const bike = await getBike(db, currentUser(req).siteIds, id);
+    if (!bike) throw notFound('That bike');
+    const due = await listDue(db, [bike.site.id], { bikeId: id, all: true }, ctx.now());
+    res.json({ bike, readings: await readingsOf(db, id), due, ride: rideVerdict(bike, due) });
+  });
+
+  r.post(
+    '/:id/check-ins',
+    requireRole('desk', 'technician', 'manager', 'admin'),
+    validate({ params: IdParamsSchema, body: CheckInSchema }),
+    async (req, res) => {
+      const user = currentUser(req);
+      const { id } = req.valid.params as { id: string };
+      const { reading, grounded } = await recordCheckIn(db, user, id, req.valid.body as CheckIn, ctx.now());
+      const bike = (await getBike(db, user.siteIds, id))!;
+      const due = await listDue(db, [bike.site.id], { bikeId: id, all: true }, ctx.now());
+      res.status(201).json({
+        reading: { id: reading.id, date: reading.date, value: reading.value, unit: reading.unit, odometerKm: reading.odometerKm, reset: reading.reset },
+        bike,
+        due,
+        grounded,
+        ride: rideVerdict(bike, due),
+      });
+    },
+  );
+
+  r.post('/', requireRole('manager', 'admin'), validate({ body: BikeCreateSchema }), async (req, res) => {
+    const user = currentUser(req);
+    const body = req.valid.body as BikeCreate;
+    await checkRefs(user, body.modelId, body.siteId);
+    const id = await db.transaction(async (tx) => {
+      if (await fleetNumberTaken(tx, body.fleetNumber)) throw fleetTaken(body.fleetNumber);
+      const [row] = await tx.insert(bikes).values(body).returning({ id: bikes.id });
+      await audit(tx, { userId: user.id, action: 'create', entity: 'bike', entityId: row.id, changes: body });
+      return row.id;
+    });
+    res.status(201).json({ bike: await getBike(db, user.siteIds, id) });
+  });
+
+  r.patch('/:id', requireRole('manager', 'admin'), validate({ params: IdParamsSchema, body: BikeUpdateSchema }), async (req, res) => {
+    const user = currentUser(req);
+    const { id } = req.valid.params as { id: string };
+    const body = req.valid.body as BikeUpdate;
+    await checkRefs(user, body.modelId, body.siteId);
+    await db.transaction(async (tx) => {
+      const [before] = await tx.select().from(bikes).where(eq(bikes.id, id));
+      if (!before || !canSeeSite(user, before.siteId)) throw notFound('That bike');
+      if (body.fleetNumber && (await fleetNumberTaken(tx, body.fleetNumber, id))) throw fleetTaken(body.fleetNumber);
+      await tx.update(bikes).set({ ...body, updatedAt: ctx.now() }).where(eq(bikes.id, id));
+      await audit(tx, { userId: user.id, action: 'update', entity: 'bike', entityId: id, changes: diff(before, body) });
+    });
+    res.json({ bike: await getBike(db, user.siteIds, id) });
+  });
+
+  r.post(
+    '/:id/status',
+    requireRole('manager', 'technician', 'admin'),
+    validate({ params: IdParamsSchema, body: BikeStatusChangeSchema }),
+    async (req, res) => {
+      const user = currentUser(req);
+      const { id } = req.valid.params as { id: string };
+      const body = req.valid.body as BikeStatusChange;
+      await db.transaction(async (tx) => {
+        const [before] = await tx.select().from(bikes).where(eq(bikes.id, id));
+        if (!before || !canSeeSite(user, before.siteId)) throw notFound('That bike');
+        if (body.status === 'retired' && user.role === 'technician') throw forbidden('Only a manager can retire a bike.');
+        const reason = body.status === 'in_service' ? null : (body.reason ?? null);
+        await tx.update(bikes).set({ status: body.status, statusReason: reason, updatedAt: ctx.now() }).where(eq(bikes.id, id));
+        await audit(tx, {
+          userId: user.id,
+          action: 'status',
+          entity: 'bike',
+          entityId: id,
+          changes: { status: [before.status, body.status], reason: [before.statusReason, reason] },
+        });
+      });
+      res.json({ bike: await getBike(db, user.siteIds, id) });
+    },
+  );
+  return r;
+}

@@ -1,0 +1,113 @@
+import { and, desc, eq, inArray } from 'drizzle-orm';
+import type { Db, Tx } from '../db/client';
+import { bikes, defects, odometerReadings, sites, userSites, users } from '../db/schema';
+import { validateNextReading } from '../../shared/domain/odometer';
+import { todayInZone } from '../../shared/domain/dates';
+import { toKm } from '../../shared/domain/units';
+import type { CheckIn } from '../../shared/schemas/due';
+import type { SessionUser } from '../../shared/schemas/auth';
+import { canSeeSite } from '../../shared/domain/policies';
+import { HttpError, badRequest, conflict, forbidden, notFound } from '../http-error';
+import { audit } from '../audit';
+import { enqueue } from '../mail/outbox';
+import { recomputeBike } from './due';
+
+const fmt = (v: number, unit: string) => `${new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1 }).format(v)} ${unit}`;
+
+/** Records a check-in: validates the reading against the last one, stores it, reports a defect, recomputes the bike's dues. */
+export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, input: CheckIn, now: Date) {
+  if (input.reset && user.role === 'desk')
+    throw forbidden('Only a technician or a manager can record a replaced odometer. Ask one to enter this reading.');
+  return db.transaction(async (tx) => {
+    // Lock the bike's row so concurrent check-ins of one bike are judged one after the other.
+    const [row] = await tx
+      .select({ bike: bikes, timeZone: sites.timeZone })
+      .from(bikes)
+      .innerJoin(sites, eq(sites.id, bikes.siteId))
+      .where(eq(bikes.id, bikeId))
+      .for('update', { of: bikes });
+    if (!row || !canSeeSite(user, row.bike.siteId)) throw notFound('That bike');
+    const bike = row.bike;
+    if (bike.status === 'retired') throw conflict('This bike is retired. A manager can bring it back before it is checked in.');
+    const today = todayInZone(row.timeZone, now);
+    const date = input.date ?? today;
+    const [last] = await tx
+      .select()
+      .from(odometerReadings)
+      .where(eq(odometerReadings.bikeId, bikeId))
+      .orderBy(desc(odometerReadings.odometerKm), desc(odometerReadings.createdAt))
+      .limit(1);
+    const check = validateNextReading({
+      last: last ? { date: last.date, value: last.value, unit: last.unit, reset: last.reset } : null,
+      next: { date, value: input.odometer, unit: bike.odometerUnit, reset: input.reset },
+      today,
+    });
+    if (check.kind === 'future_date')
+      throw badRequest(`The date is after today (${today}). Enter today's date or an earlier one.`, [{ path: 'date', message: 'In the future.' }]);
+    if (check.kind === 'before_last_date')
+      throw conflict(`The last check-in is dated ${check.lastDate}; a reading cannot be dated before it.`, [{ path: 'date', message: `Before ${check.lastDate}.` }]);
+    if (check.kind === 'lower_than_last')
+      throw conflict(
+        `The odometer cannot go backwards: the last reading was ${fmt(check.lastValue, check.lastUnit)} on ${check.lastDate}. Check the digits. If the odometer was replaced, a technician or manager records it as a new odometer.`,
+        [{ path: 'odometer', message: `Lower than the last reading, ${fmt(check.lastValue, check.lastUnit)}.` }],
+      );
+    if (check.kind === 'big_jump' && !input.confirmLargeJump)
+      throw new HttpError(
+        409,
+        'needs_confirmation',
+        `That is ${fmt(check.km, 'km')} in ${check.days || 1} day(s), more than 1,000 km a day. Check the reading; if it is right, confirm it.`,
+        [{ path: 'odometer', message: 'Unusually large distance: confirm to save.' }],
+      );
+
+    // Continuous distance: from the current odometer's anchor (its fitting, or entry into service).
+    const [anchor] = await tx
+      .select()
+      .from(odometerReadings)
+      .where(and(eq(odometerReadings.bikeId, bikeId), eq(odometerReadings.reset, true)))
+      .orderBy(desc(odometerReadings.odometerKm))
+      .limit(1);
+    const unit = bike.odometerUnit;
+    const base = anchor
+      ? { km: anchor.odometerKm, value: anchor.value, unit: anchor.unit }
+      : { km: toKm(bike.inServiceOdometer, unit), value: bike.inServiceOdometer, unit };
+    const odometerKm = input.reset ? (last?.odometerKm ?? base.km) : base.km + toKm(input.odometer, unit) - toKm(base.value, base.unit);
+
+    const [reading] = await tx
+      .insert(odometerReadings)
+      .values({ bikeId, date, value: input.odometer, unit, odometerKm, reset: !!input.reset, source: 'check-in', recordedBy: user.id, createdAt: now })
+      .returning();
+    await audit(tx, { userId: user.id, action: input.reset ? 'odometer-replaced' : 'check-in', entity: 'bike', entityId: bikeId, changes: { odometer: input.odometer, unit, date } });
+
+    let grounded = false;
+    if (input.defect) {
+      const [d] = await tx
+        .insert(defects)
+        .values({ bikeId, category: input.defect.category, text: input.defect.text, safetyCritical: input.defect.safetyCritical, reportedBy: user.id, reportedAt: now })
+        .returning();
+      await audit(tx, { userId: user.id, action: 'defect', entity: 'bike', entityId: bikeId, changes: { defectId: d.id, ...input.defect } });
+      if (input.defect.safetyCritical && bike.status !== 'out_of_service') {
+        const reason = `Safety defect reported at check-in (${input.defect.category}): ${input.defect.text}`;
+        await tx.update(bikes).set({ status: 'out_of_service', statusReason: reason, updatedAt: now }).where(eq(bikes.id, bikeId));
+        await audit(tx, { userId: user.id, action: 'grounded', entity: 'bike', entityId: bikeId, changes: { status: [bike.status, 'out_of_service'], reason } });
+        await tellManagers(tx, bike.siteId, `${bike.fleetNumber} grounded: ${input.defect.category} defect`, `${user.name} reported a safety defect on ${bike.fleetNumber} at check-in on ${date}:\n\n${input.defect.text}\n\nThe bike is out of service until a technician or manager returns it to service.`, `defect:${d.id}`);
+        grounded = true;
+      }
+    }
+    const { report } = await recomputeBike(tx, bikeId, now);
+    return { reading, grounded, report };
+  });
+}
+
+async function tellManagers(tx: Tx, siteId: string, subject: string, text: string, key: string) {
+  const managers = await tx
+    .select({ id: users.id, email: users.email })
+    .from(users)
+    .innerJoin(userSites, eq(userSites.userId, users.id))
+    .where(and(eq(userSites.siteId, siteId), inArray(users.role, ['manager']), eq(users.disabled, false)));
+  for (const m of managers) {
+    const html = `<p>${escapeHtml(text).replace(/\n/g, '<br>')}</p>`;
+    await enqueue(tx, { dedupeKey: `${key}:${m.id}`, to: m.email, subject: `Lashline: ${subject}`, text, html });
+  }
+}
+
+export const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);

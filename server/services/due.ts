@@ -1,0 +1,160 @@
+import { and, eq, inArray, sql } from 'drizzle-orm';
+import type { DbOrTx as Writer } from '../db/client';
+import { bikes, dueStates, serviceTasks, userSites, users } from '../db/schema';
+import { computeDue, type DueResult } from '../../shared/domain/due';
+import { toKm } from '../../shared/domain/units';
+import { audit } from '../audit';
+import { doneKey, loadDueInputs, type DueInputs } from './due-data';
+
+
+export interface ComputedDue {
+  bikeId: string;
+  siteId: string;
+  item: DueInputs['itemsByModel'] extends Map<string, (infer I)[]> ? I : never;
+  result: DueResult;
+}
+
+/** computeDue for every bike × service item in the inputs; pure after loading. */
+export function computeAll(inputs: DueInputs): ComputedDue[] {
+  const out: ComputedDue[] = [];
+  for (const b of inputs.bikes) {
+    const inService = { date: b.inServiceDate, odometerKm: toKm(b.inServiceOdometer, b.odometerUnit) };
+    const readings = inputs.readings.get(b.id) ?? [];
+    for (const item of inputs.itemsByModel.get(b.modelId) ?? []) {
+      const result = computeDue({
+        interval: { everyKm: item.everyKm, everyMonths: item.everyMonths, firstAtKm: item.firstAtKm, rrule: item.rrule },
+        lastDone: inputs.lastDone.get(doneKey(b.id, item.id)) ?? null,
+        inService,
+        readings,
+        today: b.today,
+      });
+      out.push({ bikeId: b.id, siteId: b.siteId, item, result });
+    }
+  }
+  return out;
+}
+
+const cycleKey = (r: DueResult) => `${r.baseline.kind}:${r.baseline.date}:${Math.round(r.baseline.odometerKm)}`;
+
+async function saveStates(db: Writer, computed: ComputedDue[], now: Date) {
+  for (let i = 0; i < computed.length; i += 500) {
+    const rows = computed.slice(i, i + 500).map(({ bikeId, item, result: r }) => ({
+      bikeId,
+      serviceItemId: item.id,
+      status: r.status,
+      dueAtKm: r.dueAtKm,
+      dueByDate: r.dueByDate,
+      projectedDateForKm: r.projectedDateForKm,
+      dueDate: r.dueDate,
+      trigger: r.trigger,
+      currentKm: r.currentKm,
+      remainingKm: r.remainingKm,
+      remainingDays: r.remainingDays,
+      usageKmPerDay: r.usageKmPerDay,
+      baselineDate: r.baseline.date,
+      baselineKm: r.baseline.odometerKm,
+      computedAt: now,
+    }));
+    await db
+      .insert(dueStates)
+      .values(rows)
+      .onConflictDoUpdate({
+        target: [dueStates.bikeId, dueStates.serviceItemId],
+        set: Object.fromEntries(
+          Object.keys(rows[0]).filter((k) => k !== 'bikeId' && k !== 'serviceItemId').map((k) => [k, sql.raw(`excluded.${toSnake(k)}`)]),
+        ),
+      });
+  }
+}
+const toSnake = (s: string) => s.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
+
+/** Open minutes of work per technician, for giving new work to the least loaded one at the bike's site. */
+async function technicianLoads(db: Writer, siteIds: string[]) {
+  if (!siteIds.length) return new Map<string, { userId: string; minutes: number }[]>();
+  const techs = await db
+    .select({ userId: users.id, siteId: userSites.siteId })
+    .from(users)
+    .innerJoin(userSites, eq(userSites.userId, users.id))
+    .where(and(eq(users.role, 'technician'), eq(users.disabled, false), inArray(userSites.siteId, siteIds)));
+  const open = await db
+    .select({ assigneeId: serviceTasks.assigneeId, minutes: sql<number>`sum(${serviceTasks.estimatedMinutes})::int` })
+    .from(serviceTasks)
+    .where(inArray(serviceTasks.status, ['open', 'in_progress']))
+    .groupBy(serviceTasks.assigneeId);
+  const minutes = new Map(open.map((o) => [o.assigneeId, Number(o.minutes)]));
+  const bySite = new Map<string, { userId: string; minutes: number }[]>();
+  for (const t of techs) bySite.set(t.siteId, [...(bySite.get(t.siteId) ?? []), { userId: t.userId, minutes: minutes.get(t.userId) ?? 0 }]);
+  return bySite;
+}
+
+function pickTechnician(pool: { userId: string; minutes: number }[] | undefined, minutes: number) {
+  if (!pool?.length) return null;
+  const best = pool.reduce((a, b) => (b.minutes < a.minutes || (b.minutes === a.minutes && b.userId < a.userId) ? b : a));
+  best.minutes += minutes;
+  return best.userId;
+}
+
+export interface ApplyReport {
+  computed: number;
+  tasksRaised: number;
+  bikesGrounded: number;
+}
+
+/**
+ * Stores the due states, raises one task per item and due cycle that is overdue or soon (the unique
+ * cycle key makes a repeat, a concurrent run or a restart raise nothing twice), and grounds bikes with
+ * an overdue safety-critical item.
+ */
+export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): Promise<ApplyReport> {
+  await saveStates(db, computed, now);
+  const wanted = computed.filter((c) => c.result.status !== 'ok');
+  const loads = await technicianLoads(db, [...new Set(wanted.map((c) => c.siteId))]);
+  let tasksRaised = 0;
+  for (const c of wanted) {
+    const key = cycleKey(c.result);
+    const [exists] = await db
+      .select({ id: serviceTasks.id })
+      .from(serviceTasks)
+      .where(and(eq(serviceTasks.bikeId, c.bikeId), eq(serviceTasks.serviceItemId, c.item.id), eq(serviceTasks.cycleKey, key)));
+    if (exists) continue;
+    const inserted = await db
+      .insert(serviceTasks)
+      .values({
+        bikeId: c.bikeId,
+        serviceItemId: c.item.id,
+        cycleKey: key,
+        dueDate: c.result.dueDate,
+        estimatedMinutes: c.item.estimatedMinutes,
+        assigneeId: pickTechnician(loads.get(c.siteId), c.item.estimatedMinutes),
+        raisedAt: now,
+      })
+      .onConflictDoNothing()
+      .returning({ id: serviceTasks.id });
+    tasksRaised += inserted.length;
+  }
+  let bikesGrounded = 0;
+  const unsafe = new Map<string, string[]>();
+  for (const c of wanted) {
+    if (c.result.status === 'overdue' && c.item.safetyCritical) unsafe.set(c.bikeId, [...(unsafe.get(c.bikeId) ?? []), c.item.name]);
+  }
+  for (const [bikeId, names] of unsafe) {
+    const reason = `Overdue safety-critical work: ${names.join(', ')}. Do not ride until it is done and signed off.`;
+    const changed = await db
+      .update(bikes)
+      .set({ status: 'out_of_service', statusReason: reason, updatedAt: now })
+      .where(and(eq(bikes.id, bikeId), eq(bikes.status, 'in_service')))
+      .returning({ id: bikes.id });
+    if (changed.length) {
+      bikesGrounded++;
+      await audit(db, { userId: null, action: 'grounded', entity: 'bike', entityId: bikeId, changes: { status: ['in_service', 'out_of_service'], reason } });
+    }
+  }
+  return { computed: computed.length, tasksRaised, bikesGrounded };
+}
+
+/** Recomputes one bike (after a check-in or a closed task), inside the caller's transaction. */
+export async function recomputeBike(db: Writer, bikeId: string, now: Date) {
+  const computed = computeAll(await loadDueInputs(db, now, [bikeId]));
+  const report = await applyDue(db, computed, now);
+  return { computed, report };
+}

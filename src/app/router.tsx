@@ -1,0 +1,44 @@
+import { createBrowserRouter, Navigate, RouterProvider, useRouteError } from 'react-router-dom';
+import { useQuery } from '@tanstack/react-query';
+import { authQueries } from '../features/auth/api';
+import { ROLE_HOME } from '../../shared/roles';
+import { ErrorPanel, Loading } from '../components/ui/states';
+import { Shell } from './shell';
+
+function Home() {
+  const me = useQuery(authQueries.me());
+  if (me.isPending) return <Loading what="your account" />;
+  return <Navigate to={me.data ? ROLE_HOME[me.data.role] : '/sign-in'} replace />;
+}
+
+function RouteError() {
+  const error = useRouteError();
+  return (
+    <div className="mx-auto max-w-3xl p-6">
+      <ErrorPanel error={error instanceof Error ? error : new Error('This page could not be shown.')} retry={() => window.location.reload()} />
+    </div>
+  );
+}
+
+const router = createBrowserRouter([
+  { path: '/sign-in', lazy: () => import('../features/auth/routes/sign-in').then((m) => ({ Component: m.SignInRoute })) },
+  { path: '/setup', lazy: () => import('../features/auth/routes/setup').then((m) => ({ Component: m.SetupRoute })) },
+  { path: '/invite/:token', lazy: () => import('../features/auth/routes/accept-invite').then((m) => ({ Component: m.AcceptInviteRoute })) },
+  {
+    element: <Shell />,
+    errorElement: <RouteError />,
+    children: [
+      { index: true, element: <Home /> },
+      { path: '/fleet', lazy: () => import('../features/fleet/routes/fleet-register').then((m) => ({ Component: m.FleetRegisterRoute })) },
+      { path: '/fleet/new', lazy: () => import('../features/fleet/routes/bike-new').then((m) => ({ Component: m.BikeNewRoute })) },
+      { path: '/fleet/:id', lazy: () => import('../features/fleet/routes/bike-page').then((m) => ({ Component: m.BikePageRoute })) },
+      { path: '/admin/people', lazy: () => import('../features/admin/routes/people').then((m) => ({ Component: m.PeopleRoute })) },
+      { path: '/admin/sites', lazy: () => import('../features/admin/routes/sites').then((m) => ({ Component: m.SitesRoute })) },
+      { path: '*', element: <ErrorPanel error={new Error('There is no page at this address. Use the menu above.')} /> },
+    ],
+  },
+]);
+
+export function AppRouter() {
+  return <RouterProvider router={router} />;
+}

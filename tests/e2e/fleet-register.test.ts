@@ -1,0 +1,41 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { BrowserContext } from 'playwright-core';
+import { hasBrowser, launchBrowser, shotOnFailure, signIn, startDemoServer, type Running } from './support';
+
+describe.skipIf(!hasBrowser)('the manager signs in and sees the fleet register', () => {
+  let server: Running;
+  let browser: BrowserContext;
+  beforeAll(async () => {
+    server = await startDemoServer();
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+
+  it('lists the demo fleet, filters it, and opens a bike', async () => {
+    const page = await browser.newPage();
+    await shotOnFailure(page, 'fleet-register', async () => {
+      await signIn(page, server.url, 'imogen@saltmarsh.test');
+      await page.getByRole('link', { name: 'Fleet', exact: true }).click();
+      await page.getByRole('heading', { name: 'Fleet' }).waitFor();
+      const table = page.getByRole('table', { name: 'Fleet register' });
+      await table.getByRole('link', { name: 'SM-01' }).waitFor();
+      expect(await table.locator('tbody tr').count()).toBeGreaterThanOrEqual(20);
+      await page.getByLabel('Search').fill('SM-07');
+      await expect.poll(() => table.locator('tbody tr').count()).toBe(1);
+      await table.getByRole('link', { name: 'SM-07' }).click();
+      await page.getByRole('heading', { name: 'SM-07' }).waitFor();
+      await page.getByRole('heading', { name: 'Odometer history' }).waitFor();
+    });
+  });
+
+  it('keeps the desk out of administration', async () => {
+    const page = await (await launchBrowser()).newPage();
+    await signIn(page, server.url, 'cal@saltmarsh.test');
+    await page.getByRole('heading', { name: 'Fleet' }).waitFor();
+    expect(await page.getByRole('link', { name: 'People' }).count()).toBe(0);
+    await page.context().close();
+  });
+});

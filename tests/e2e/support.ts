@@ -1,0 +1,83 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+
+export const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+export const hasBrowser = existsSync(CHROMIUM);
+if (!hasBrowser && process.env.REQUIRE_BROWSER) throw new Error(`No Chromium at ${CHROMIUM}: install it (apt-get install chromium).`);
+export const DEMO_PASSWORD = 'saltmarsh-demo-26';
+
+export interface Running {
+  url: string;
+  dataDir: string;
+  proc: ChildProcess;
+  stop(): Promise<void>;
+}
+
+/** Starts the real server with the demo scenario on a fresh data directory and a free port. */
+export async function startDemoServer(env: Record<string, string> = {}): Promise<Running> {
+  const dataDir = await mkdtemp(join(tmpdir(), 'lashline-e2e-'));
+  const proc = spawn('npx', ['tsx', 'server/index.ts', '--demo'], {
+    env: { ...process.env, NODE_ENV: 'production', PORT: '0', DATA_DIR: dataDir, DEMO_PASSWORD, ...env },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let log = '';
+  const url = await new Promise<string>((resolve, reject) => {
+    const timer = setTimeout(() => reject(new Error(`Server did not start:\n${log}`)), 60_000);
+    const onData = (b: Buffer) => {
+      log += b.toString();
+      const m = /listening on (http:\/\/[\d.:]+)/.exec(log);
+      if (m) {
+        clearTimeout(timer);
+        resolve(m[1]);
+      }
+    };
+    proc.stdout!.on('data', onData);
+    proc.stderr!.on('data', onData);
+    proc.on('exit', (code) => reject(new Error(`Server exited with ${code}:\n${log}`)));
+  });
+  return {
+    url,
+    dataDir,
+    proc,
+    async stop() {
+      if (proc.exitCode === null) {
+        const exited = new Promise((r) => proc.once('exit', r));
+        proc.kill('SIGTERM');
+        await exited;
+      }
+      await rm(dataDir, { recursive: true, force: true });
+    },
+  };
+}
+
+export async function launchBrowser(): Promise<BrowserContext> {
+  return chromium.launchPersistentContext(await mkdtemp(join(tmpdir(), 'e2e-')), {
+    executablePath: CHROMIUM,
+    headless: true,
+    viewport: { width: 1280, height: 900 },
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
+  });
+}
+
+export async function signIn(page: Page, url: string, email: string, password = DEMO_PASSWORD) {
+  await page.goto(`${url}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+/** Keeps a screenshot when a step fails, for whoever reads the CI log. */
+export async function shotOnFailure<T>(page: Page, name: string, fn: () => Promise<T>): Promise<T> {
+  try {
+    return await fn();
+  } catch (e) {
+    const file = join(tmpdir(), `lashline-e2e-${name}.png`);
+    await page.screenshot({ path: file, fullPage: true }).catch(() => {});
+    console.error(`Screenshot of the failure: ${file}`);
+    throw e;
+  }
+}
