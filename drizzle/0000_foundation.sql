@@ -220,7 +220,7 @@ CREATE TABLE "users" (
 	"role" text NOT NULL,
 	"password_hash" text,
 	"disabled" boolean DEFAULT false NOT NULL,
-	"calendar_token_hash" text,
+	"calendar_feed_version" integer DEFAULT 1 NOT NULL,
 	"invite_token_hash" text,
 	"invite_expires_at" timestamp with time zone,
 	"created_at" timestamp with time zone DEFAULT now() NOT NULL,

@@ -14,6 +14,12 @@ import { authRoutes } from './routes/auth';
 import { bikeRoutes } from './routes/bikes';
 import { referenceRoutes } from './routes/reference';
 import { adminUserRoutes } from './routes/admin-users';
+import { dueRoutes } from './routes/due';
+import { calendarRoutes } from './routes/calendar';
+import { adminMailRoutes } from './routes/admin-mail';
+import { adminJobRoutes } from './routes/admin-jobs';
+import { taskRoutes } from './routes/tasks';
+import type { JobDeps } from '../jobs/types';
 
 export interface AppDeps {
   database: Database;
@@ -21,6 +27,10 @@ export interface AppDeps {
   sessionSecret: string;
   /** The clock, so tests can move time. */
   now?: () => Date;
+  /** A secret the command-line job runner sends to run jobs on this server (kept in the lock file). */
+  jobToken?: string;
+  /** Outgoing mail: the SMTP transport (SMTP_URL, or the built-in catcher). */
+  mail?: JobDeps['mail'];
   /** Serves the client (production build or Vite in middleware mode), mounted after the API. */
   client?: (app: Express) => void;
 }
@@ -30,6 +40,10 @@ export interface AppContext {
   config: Config;
   sessions: DbSessionStore;
   now: () => Date;
+  sessionSecret: string;
+  publicUrl: (req?: import('express').Request) => string;
+  jobDeps: () => JobDeps;
+  jobToken?: string;
 }
 
 export function createApp(deps: AppDeps): Express {
@@ -39,6 +53,16 @@ export function createApp(deps: AppDeps): Express {
     config,
     sessions: new DbSessionStore(database.db),
     now: deps.now ?? (() => new Date()),
+    sessionSecret: deps.sessionSecret,
+    jobToken: deps.jobToken,
+    publicUrl: (req) => config.PUBLIC_URL?.replace(/\/$/, '') ?? (req ? `${req.protocol}://${req.get('host')}` : `http://${config.HOST}:${config.PORT}`),
+    jobDeps: () => ({
+      db: database.db,
+      now: ctx.now,
+      mail: deps.mail ?? { transport: () => { throw new Error('No mail transport is configured.'); }, from: config.MAIL_FROM },
+      publicUrl: ctx.publicUrl(),
+      log: (line) => config.LOG_LEVEL === 'info' && console.log(line),
+    }),
   };
   const app = express();
   app.disable('x-powered-by');
@@ -91,13 +115,18 @@ export function createApp(deps: AppDeps): Express {
   api.use(passport.initialize());
   api.use(passport.session());
   api.use(refuseCrossSite);
-  api.use(csrfProtection);
+  api.use(csrfProtection(deps.jobToken));
 
   api.use('/health', healthRoutes(ctx));
   api.use('/auth', authRoutes(ctx, passport));
   api.use('/bikes', bikeRoutes(ctx));
   api.use('/', referenceRoutes(ctx));
   api.use('/admin/users', adminUserRoutes(ctx));
+  api.use('/admin/mail', adminMailRoutes(ctx));
+  api.use('/admin/jobs', adminJobRoutes(ctx));
+  api.use('/', dueRoutes(ctx));
+  api.use('/calendar', calendarRoutes(ctx));
+  api.use('/tasks', taskRoutes(ctx));
   api.use(apiNotFound);
 
   app.use('/api', api);

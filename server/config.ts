@@ -18,7 +18,15 @@ const ConfigSchema = z.object({
   LOGIN_MAX_PER_ACCOUNT: z.coerce.number().int().positive().default(10),
   LOGIN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
   DEMO_PASSWORD: z.string().min(8).default('saltmarsh-demo-26'),
-  PUBLIC_URL: z.string().optional(),
+  PUBLIC_URL: z.string().url('PUBLIC_URL must be the address people open, e.g. https://lashline.example.test').optional(),
+  SMTP_URL: z.string().optional(),
+  MAIL_FROM: z.string().default('Lashline <lashline@localhost>'),
+  MAIL_CATCHER_PORT: z.coerce.number().int().min(0).max(65535).default(0),
+  SCHEDULER: z.enum(['on', 'off']).default('on'),
+  SCHEDULE_TZ: z.string().default('Europe/London'),
+  DUE_SCAN_CRON: z.string().default('30 5 * * *'),
+  DIGEST_CRON: z.string().default('0 7 * * 1'),
+  MAIL_RETRY_CRON: z.string().default('* * * * *'),
   LOG_LEVEL: z.enum(['silent', 'error', 'info']).default('info'),
 });
 
@@ -34,5 +42,5 @@ export function readConfig(env: NodeJS.ProcessEnv = process.env): Config {
 }
 
 export function testConfig(over: Partial<Config> = {}): Config {
-  return { ...readConfig({}), LOG_LEVEL: 'silent', SESSION_SECRET: 'test-secret-test-secret', ...over };
+  return { ...readConfig({}), LOG_LEVEL: 'silent', SCHEDULER: 'off', SESSION_SECRET: 'test-secret-test-secret', ...over };
 }

@@ -1,4 +1,5 @@
 import { createServer } from 'node:http';
+import { randomBytes } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
 import express, { type Express } from 'express';
@@ -9,6 +10,10 @@ import { createApp } from './app';
 import { sessionSecret } from './secrets';
 import { seedDemo } from './demo/seed';
 import { needsSetup } from './services/accounts';
+import { startMailCatcher, type MailCatcher } from './mail/catcher';
+import { createTransport } from './mail/transport';
+import { startScheduler } from '../jobs';
+import { updateLock } from './db/data-dir-lock';
 
 const args = new Set(process.argv.slice(2));
 const dev = args.has('--dev');
@@ -34,19 +39,40 @@ async function main() {
     const summary = await seedDemo(database.db, { password: config.DEMO_PASSWORD });
     console.log(`Demo scenario loaded: ${summary}`);
   }
+  // Without an SMTP server, mail goes to the built-in catcher and shows on the admin's mail page.
+  let catcher: MailCatcher | undefined;
+  if (!config.SMTP_URL) catcher = await startMailCatcher(database.db, config.MAIL_CATCHER_PORT);
+  const transport = createTransport(config.SMTP_URL, catcher?.port);
+  const jobToken = randomBytes(24).toString('base64url');
   const httpServer = createServer();
   const app = createApp({
+    jobToken,
     database,
     config,
     sessionSecret: await sessionSecret(database.db, config.SESSION_SECRET),
+    mail: { transport: () => transport, from: config.MAIL_FROM },
     client: dev ? undefined : serveBuiltClient,
   });
   if (dev) await mountVite(app, httpServer);
   httpServer.on('request', app);
-  httpServer.listen(config.PORT, config.HOST, () => {
-    const where = config.DATABASE_URL ? 'PostgreSQL' : `embedded PGlite in ${dataDir}`;
-    console.log(`Lashline listening on http://${config.HOST}:${(httpServer.address() as { port: number }).port} (${where})`);
-  });
+  await new Promise<void>((r) => httpServer.listen(config.PORT, config.HOST, () => r()));
+  const port = (httpServer.address() as { port: number }).port;
+  const where = config.DATABASE_URL ? 'PostgreSQL' : `embedded PGlite in ${dataDir}`;
+  // Command-line jobs find the running server through the lock file and ask it to do the work.
+  if (!config.DATABASE_URL) updateLock(dataDir, { port, host: config.HOST, jobToken });
+  console.log(`Lashline listening on http://${config.HOST}:${port} (${where})${catcher ? `; mail caught on 127.0.0.1:${catcher.port}` : ''}`);
+
+  const scheduler =
+    config.SCHEDULER === 'on'
+      ? startScheduler(
+          { db: database.db, now: () => new Date(), mail: { transport: () => transport, from: config.MAIL_FROM }, publicUrl: config.PUBLIC_URL ?? `http://${config.HOST}:${port}`, log: (l) => console.log(l) },
+          [
+            { job: 'due-scan', cron: config.DUE_SCAN_CRON, timeZone: config.SCHEDULE_TZ, catchUp: true },
+            { job: 'weekly-digest', cron: config.DIGEST_CRON, timeZone: config.SCHEDULE_TZ, catchUp: true },
+            { job: 'deliver-mail', cron: config.MAIL_RETRY_CRON, timeZone: config.SCHEDULE_TZ, catchUp: false },
+          ],
+        )
+      : null;
 
   let stopping = false;
   const stop = async (signal: string) => {
@@ -58,7 +84,10 @@ async function main() {
       httpServer.closeAllConnections();
     }, 10_000);
     force.unref();
+    await scheduler?.stop();
     await new Promise<void>((r) => httpServer.close(() => r()));
+    await scheduler?.catchUp.catch(() => {});
+    await catcher?.close();
     await database.close();
     unlock();
     process.exit(0);

@@ -1,4 +1,4 @@
-import { closeSync, mkdirSync, openSync, readFileSync, rmSync, writeSync } from 'node:fs';
+import { closeSync, mkdirSync, openSync, readFileSync, rmSync, writeFileSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
 
 export class DataDirLockedError extends Error {}
@@ -21,7 +21,8 @@ export function lockDataDir(dir: string, label = 'the Lashline server') {
   const file = join(dir, 'lashline.lock');
   for (let attempt = 0; attempt < 2; attempt++) {
     try {
-      const fd = openSync(file, 'wx');
+      // Readable by this OS user only: it will hold the local job token.
+      const fd = openSync(file, 'wx', 0o600);
       writeSync(fd, JSON.stringify({ pid: process.pid, label, since: new Date().toISOString() }));
       closeSync(fd);
       let released = false;
@@ -49,7 +50,14 @@ export function lockDataDir(dir: string, label = 'the Lashline server') {
   throw new DataDirLockedError(`Could not take the lock on ${dir}. Try again.`);
 }
 
-export function lockOwner(dir: string): { pid: number; port?: number } | null {
+/** Adds facts to the lock (the port the owner serves on), for command-line tools. */
+export function updateLock(dir: string, info: Record<string, unknown>) {
+  const file = join(dir, 'lashline.lock');
+  const owner = JSON.parse(readFileSync(file, 'utf8'));
+  writeFileSync(file, JSON.stringify({ ...owner, ...info }), { mode: 0o600 });
+}
+
+export function lockOwner(dir: string): { pid: number; port?: number; host?: string; jobToken?: string } | null {
   try {
     const owner = JSON.parse(readFileSync(join(dir, 'lashline.lock'), 'utf8'));
     return owner.pid && alive(owner.pid) ? owner : null;

@@ -35,8 +35,8 @@ export const users = pgTable('users', {
   role: text('role', { enum: ['admin', 'manager', 'technician', 'desk'] }).notNull(),
   passwordHash: text('password_hash'),
   disabled: boolean('disabled').notNull().default(false),
-  // A secret for the calendar feed; stored hashed so a leaked table reveals no feed address.
-  calendarTokenHash: text('calendar_token_hash'),
+  // The feed address is signed with the server secret over (user, version); a reset bumps the version.
+  calendarFeedVersion: integer('calendar_feed_version').notNull().default(1),
   inviteTokenHash: text('invite_token_hash'),
   inviteExpiresAt: timestamp('invite_expires_at', { withTimezone: true }),
   createdAt: createdAt(),

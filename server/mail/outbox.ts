@@ -17,8 +17,8 @@ export const backoffMinutes = (attempt: number) => [1, 5, 30, 120, 360][Math.min
 const LEASE_MINUTES = 5;
 
 /** Queues a message once: a second enqueue with the same key does nothing. Returns whether it was new. */
-export async function enqueue(db: Pick<Db, 'insert'>, m: OutgoingMail) {
-  const rows = await db.insert(outbox).values(m).onConflictDoNothing({ target: outbox.dedupeKey }).returning({ id: outbox.id });
+export async function enqueue(db: Pick<Db, 'insert'>, m: OutgoingMail, now = new Date()) {
+  const rows = await db.insert(outbox).values({ ...m, createdAt: now, nextAttemptAt: now }).onConflictDoNothing({ target: outbox.dedupeKey }).returning({ id: outbox.id });
   return rows.length > 0;
 }
 

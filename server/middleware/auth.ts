@@ -38,3 +38,9 @@ export function currentUser(req: Request) {
   if (!req.user) throw notSignedIn();
   return req.user;
 }
+
+/** A role rule that also admits the running server's local job runner, which holds a secret token instead of a session. */
+export const requireRoleOrJobToken = (allowed: (req: Request) => boolean, ...roles: Role[]) => {
+  const byRole = requireRole(...roles);
+  return tag({ kind: 'roles', roles }, (req: Request, res: Response, next: NextFunction) => (allowed(req) ? next() : byRole(req, res, next)));
+};

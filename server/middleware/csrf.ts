@@ -1,4 +1,5 @@
 import type { NextFunction, Request, Response } from 'express';
+import { timingSafeEqual } from 'node:crypto';
 import { csrfSync } from 'csrf-sync';
 import { HttpError } from '../http-error';
 
@@ -36,7 +37,18 @@ export function refuseCrossSite(req: Request, _res: Response, next: NextFunction
 const crossSite = () =>
   new HttpError(403, 'csrf_failed', 'This request came from another site and was refused. Open Lashline directly and try again.');
 
-export function csrfProtection(req: Request, res: Response, next: NextFunction) {
+export const JOB_TOKEN_HEADER = 'x-lashline-job-token';
+
+/** True when a request carries the running server's local job token (the command-line job runner). */
+export function hasJobToken(req: Request, jobToken: string | undefined) {
+  const h = req.headers[JOB_TOKEN_HEADER];
+  if (!jobToken || typeof h !== 'string' || h.length !== jobToken.length) return false;
+  return timingSafeEqual(Buffer.from(h), Buffer.from(jobToken));
+}
+
+export const csrfProtection = (jobToken?: string) => (req: Request, res: Response, next: NextFunction) => {
+  // A secret header cannot be sent by another site's page, so the local job runner needs no session token.
+  if (hasJobToken(req, jobToken)) return next();
   csrf.csrfSynchronisedProtection(req, res, (err?: unknown) => {
     if (err)
       return next(
@@ -44,4 +56,4 @@ export function csrfProtection(req: Request, res: Response, next: NextFunction) 
       );
     next();
   });
-}
+};

@@ -44,6 +44,6 @@ export function validate(shapes: Shapes) {
 // A malformed id in the path names no record: answer it as a 404, not a field error.
 function notFoundForBadId(shapes: Shapes, details: ErrorDetail[]): HttpError | undefined {
   if (shapes.params && details.every((d) => d.path.startsWith('params')))
-    return new HttpError(404, 'not_found', 'No record has that id. Check the link.');
+    return new HttpError(404, 'not_found', `Nothing is at that address. ${details.map((d) => d.message).join(' ')}`, details);
   return undefined;
 }

@@ -89,7 +89,7 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
         const reason = `Safety defect reported at check-in (${input.defect.category}): ${input.defect.text}`;
         await tx.update(bikes).set({ status: 'out_of_service', statusReason: reason, updatedAt: now }).where(eq(bikes.id, bikeId));
         await audit(tx, { userId: user.id, action: 'grounded', entity: 'bike', entityId: bikeId, changes: { status: [bike.status, 'out_of_service'], reason } });
-        await tellManagers(tx, bike.siteId, `${bike.fleetNumber} grounded: ${input.defect.category} defect`, `${user.name} reported a safety defect on ${bike.fleetNumber} at check-in on ${date}:\n\n${input.defect.text}\n\nThe bike is out of service until a technician or manager returns it to service.`, `defect:${d.id}`);
+        await tellManagers(tx, bike.siteId, `${bike.fleetNumber} grounded: ${input.defect.category} defect`, `${user.name} reported a safety defect on ${bike.fleetNumber} at check-in on ${date}:\n\n${input.defect.text}\n\nThe bike is out of service until a technician or manager returns it to service.`, `defect:${d.id}`, now);
         grounded = true;
       }
     }
@@ -98,7 +98,7 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
   });
 }
 
-async function tellManagers(tx: Tx, siteId: string, subject: string, text: string, key: string) {
+async function tellManagers(tx: Tx, siteId: string, subject: string, text: string, key: string, now: Date) {
   const managers = await tx
     .select({ id: users.id, email: users.email })
     .from(users)
@@ -106,7 +106,7 @@ async function tellManagers(tx: Tx, siteId: string, subject: string, text: strin
     .where(and(eq(userSites.siteId, siteId), inArray(users.role, ['manager']), eq(users.disabled, false)));
   for (const m of managers) {
     const html = `<p>${escapeHtml(text).replace(/\n/g, '<br>')}</p>`;
-    await enqueue(tx, { dedupeKey: `${key}:${m.id}`, to: m.email, subject: `Lashline: ${subject}`, text, html });
+    await enqueue(tx, { dedupeKey: `${key}:${m.id}`, to: m.email, subject: `Lashline: ${subject}`, text, html }, now);
   }
 }
 

@@ -1,0 +1,25 @@
+import type { JobDeps, JobResult } from './types';
+import { loadDueInputs } from '../server/services/due-data';
+import { applyDue, computeAll } from '../server/services/due';
+
+/**
+ * The due scan: every bike × service item through computeDue, results stored, one task per
+ * due cycle raised, bikes with overdue safety-critical work grounded. Safe to run twice or at once.
+ */
+export async function run(deps: JobDeps): Promise<JobResult> {
+  const now = deps.now();
+  const started = Date.now();
+  const inputs = await loadDueInputs(deps.db, now);
+  const computed = computeAll(inputs);
+  const report = await deps.db.transaction((tx) => applyDue(tx, computed, now));
+  const counts = { overdue: 0, soon: 0, ok: 0 };
+  for (const c of computed) counts[c.result.status]++;
+  const ms = Date.now() - started;
+  return {
+    summary: `Scanned ${inputs.bikes.length} bikes, ${report.computed} items (${counts.overdue} overdue, ${counts.soon} due soon): ${report.tasksRaised} new tasks, ${report.bikesGrounded} bikes grounded, in ${ms} ms.`,
+    bikes: inputs.bikes.length,
+    ...counts,
+    ...report,
+    ms,
+  };
+}

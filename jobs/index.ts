@@ -1,0 +1,47 @@
+import cron from 'node-cron';
+import type { JobDeps, JobResult } from './types';
+import { JOBS, type JobName } from './registry';
+import { claimSlot, currentSlot, finishSlot } from './claim';
+
+export interface Schedule {
+  job: JobName;
+  cron: string;
+  timeZone: string;
+  /** Catch up a tick missed while the server was down, once, at start-up. */
+  catchUp: boolean;
+}
+
+/**
+ * Runs a scheduled job for the slot a tick belongs to, once across every instance: the instance
+ * that inserts the (job, slot) row runs it; the others, and any repeat, skip.
+ */
+export async function runScheduled(deps: JobDeps, s: Schedule): Promise<JobResult | null> {
+  const now = deps.now();
+  const slot = currentSlot(s.cron, s.timeZone, now);
+  if (!(await claimSlot(deps.db, s.job, slot, now))) return null;
+  const result = await JOBS[s.job](deps);
+  await finishSlot(deps.db, s.job, slot, result, deps.now());
+  deps.log(`[${s.job}] ${result.summary}`);
+  return result;
+}
+
+/** The only place that talks to node-cron. Returns a stop function. */
+export function startScheduler(deps: JobDeps, schedules: Schedule[]) {
+  const tasks = schedules.map((s) =>
+    cron.schedule(
+      s.cron,
+      () => runScheduled(deps, s).catch((e) => deps.log(`[${s.job}] failed: ${e instanceof Error ? e.message : e}`)),
+      // noOverlap: a slow run is never overlapped by the next tick in this process.
+      { timezone: s.timeZone, noOverlap: true, name: s.job },
+    ),
+  );
+  const catchUp = Promise.all(
+    schedules.filter((s) => s.catchUp).map((s) => runScheduled(deps, s).catch((e) => deps.log(`[${s.job}] catch-up failed: ${e instanceof Error ? e.message : e}`))),
+  );
+  return {
+    catchUp,
+    stop: async () => {
+      for (const t of tasks) await t.stop();
+    },
+  };
+}

@@ -1,0 +1,55 @@
+import { z } from 'zod';
+import { IdSchema, IsoDateSchema, MAX_TEXT } from './common';
+
+export const TASK_STATUSES = ['open', 'in_progress', 'done', 'cancelled'] as const;
+export const TASK_STATUS_LABELS: Record<(typeof TASK_STATUSES)[number], string> = {
+  open: 'To do',
+  in_progress: 'On the bench',
+  done: 'Signed off',
+  cancelled: 'Withdrawn',
+};
+
+export const TaskSchema = z.object({
+  id: IdSchema,
+  bikeId: IdSchema,
+  fleetNumber: z.string(),
+  siteId: IdSchema,
+  siteName: z.string(),
+  modelName: z.string(),
+  itemId: IdSchema,
+  item: z.string(),
+  category: z.string(),
+  safetyCritical: z.boolean(),
+  status: z.enum(TASK_STATUSES),
+  origin: z.string(),
+  dueDate: z.string().nullable(),
+  estimatedMinutes: z.number(),
+  assignee: z.object({ id: IdSchema, name: z.string() }).nullable(),
+  bikeStatus: z.string(),
+  raisedAt: z.string(),
+  startedAt: z.string().nullable(),
+  closedAt: z.string().nullable(),
+  version: z.number(),
+});
+export type Task = z.infer<typeof TaskSchema>;
+export const TaskListSchema = z.object({ items: z.array(TaskSchema) });
+
+export const TaskListQuerySchema = z.object({
+  mine: z.enum(['1', '0']).optional(),
+  status: z.enum(['active', ...TASK_STATUSES]).default('active'),
+  siteId: IdSchema.optional(),
+  bikeId: IdSchema.optional(),
+});
+export type TaskListQuery = z.infer<typeof TaskListQuerySchema>;
+
+export const AssignSchema = z.object({ assigneeId: IdSchema.nullable() });
+
+export const CloseTaskSchema = z.object({
+  /** The version the closer saw: a task changed meanwhile is not closed twice. */
+  version: z.number().int().positive(),
+  date: IsoDateSchema.optional(),
+  notes: z.string().trim().max(MAX_TEXT).optional(),
+});
+export type CloseTask = z.infer<typeof CloseTaskSchema>;
+
+export const AssigneeListSchema = z.object({ items: z.array(z.object({ id: IdSchema, name: z.string(), siteIds: z.array(IdSchema), openMinutes: z.number() })) });
