@@ -35,7 +35,7 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
       .select()
       .from(odometerReadings)
       .where(eq(odometerReadings.bikeId, bikeId))
-      .orderBy(desc(odometerReadings.odometerKm), desc(odometerReadings.createdAt))
+      .orderBy(desc(odometerReadings.date), desc(odometerReadings.odometerKm), desc(odometerReadings.createdAt))
       .limit(1);
     const check = validateNextReading({
       last: last ? { date: last.date, value: last.value, unit: last.unit, reset: last.reset } : null,

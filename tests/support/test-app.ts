@@ -4,6 +4,8 @@ import { sql } from 'drizzle-orm';
 import { createApp } from '../../server/app';
 import { openDatabase, type Database } from '../../server/db/client';
 import { testConfig, type Config } from '../../server/config';
+import { startMailCatcher, type MailCatcher } from '../../server/mail/catcher';
+import { createTransport } from '../../server/mail/transport';
 
 let template: Promise<Blob> | undefined;
 
@@ -41,13 +43,54 @@ async function truncateAll(d: Database) {
 export interface TestContext {
   app: Express;
   database: Database;
+  catcher?: MailCatcher;
   close(): Promise<void>;
 }
 
-export async function testApp(opts: { config?: Partial<Config>; now?: () => Date } = {}): Promise<TestContext> {
+export interface TestAppOptions {
+  config?: Partial<Config>;
+  now?: () => Date;
+  /** Start the built-in mail catcher and send mail through it. */
+  withMail?: boolean;
+  jobToken?: string;
+}
+
+export async function testApp(opts: TestAppOptions = {}): Promise<TestContext> {
   const database = await testDatabase();
-  const app = createApp({ database, config: testConfig(opts.config), sessionSecret: 'test-secret-test-secret', now: opts.now });
-  return { app, database, close: () => database.close() };
+  const catcher = opts.withMail ? await startMailCatcher(database.db) : undefined;
+  const transport = catcher ? createTransport(undefined, catcher.port) : undefined;
+  const config = testConfig(opts.config);
+  const app = createApp({
+    database,
+    config,
+    sessionSecret: 'test-secret-test-secret',
+    now: opts.now,
+    jobToken: opts.jobToken,
+    mail: transport ? { transport: () => transport, from: config.MAIL_FROM } : undefined,
+  });
+  return {
+    app,
+    database,
+    catcher,
+    close: async () => {
+      await catcher?.close();
+      await database.close();
+    },
+  };
+}
+
+/** A clock the test moves by hand. */
+export function manualClock(start: string) {
+  let t = new Date(start).getTime();
+  return {
+    now: () => new Date(t),
+    set: (iso: string) => {
+      t = new Date(iso).getTime();
+    },
+    advance: (ms: number) => {
+      t += ms;
+    },
+  };
 }
 
 /** A supertest agent that keeps its cookie and sends the CSRF token on every unsafe request. */

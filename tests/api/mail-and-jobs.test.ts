@@ -1,0 +1,110 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { simpleParser } from 'mailparser';
+import { eq } from 'drizzle-orm';
+import { agent, manualClock, testApp, type Agent, type TestContext } from '../support/test-app';
+import { PASSWORD, makeServiceItem, world } from '../support/factories';
+import { outbox } from '../../server/db/schema';
+import { isoWeekLabel } from '../../jobs/weekly-digest';
+import { MAX_ATTEMPTS, backoffMinutes } from '../../server/mail/outbox';
+
+const clock = manualClock('2026-06-15T06:00:00Z');
+let t: TestContext;
+let w: Awaited<ReturnType<typeof world>>;
+let admin: Agent;
+beforeAll(async () => {
+  t = await testApp({ now: clock.now, withMail: true, jobToken: 'local-job-token-for-tests-000000' });
+  w = await world(t.database.db);
+  await makeServiceItem(t.database.db, w.model.id, { name: 'Engine oil', everyKm: 5000, everyMonths: 6 });
+  admin = await agent(t.app);
+  await admin.login(w.people.admin.email, PASSWORD);
+});
+afterAll(() => t.close());
+
+// A week later the session is past its absolute lifetime: sign in afresh.
+async function signInAgain() {
+  admin = await agent(t.app);
+  await admin.login(w.people.admin.email, PASSWORD);
+}
+
+describe('ISO week label', () => {
+  it('follows ISO 8601 week numbering (checked against date-fns getISOWeek)', () => {
+    // 2026-12-31 is a Thursday: ISO week 53 of 2026. 2027-01-01 (Friday) is still 2026-W53.
+    expect(isoWeekLabel('2026-12-31')).toBe('2026-W53');
+    expect(isoWeekLabel('2027-01-01')).toBe('2026-W53');
+    expect(isoWeekLabel('2026-06-15')).toBe('2026-W25');
+  });
+});
+
+describe('jobs run by an administrator', () => {
+  it('runs the due scan now and answers with what it did', async () => {
+    const res = await admin.post('/api/admin/jobs/due-scan/run');
+    expect(res.status).toBe(200);
+    expect(res.body.result.summary).toMatch(/Scanned \d+ bikes/);
+    expect((await admin.post('/api/admin/jobs/no-such-job/run')).status).toBe(404);
+  });
+
+  it('is refused to a manager and to a signed-out caller without the local job token', async () => {
+    const m = await agent(t.app);
+    await m.login(w.people.manager.email, PASSWORD);
+    expect((await m.post('/api/admin/jobs/due-scan/run')).status).toBe(403);
+    expect((await request(t.app).post('/api/admin/jobs/due-scan/run')).status).toBe(403);
+    const local = await request(t.app).post('/api/admin/jobs/due-scan/run').set('x-lashline-job-token', 'local-job-token-for-tests-000000');
+    expect(local.status).toBe(200);
+  });
+});
+
+describe('the weekly due list by e-mail', () => {
+  it('arrives in the mail catcher once per manager and week, with text and HTML parts (RFC 5322, read by mailparser)', async () => {
+    const first = await admin.post('/api/admin/jobs/weekly-digest/run');
+    expect(first.body.result).toMatchObject({ queued: 1, sent: 1 });
+    const again = await admin.post('/api/admin/jobs/weekly-digest/run');
+    expect(again.body.result).toMatchObject({ queued: 0, sent: 0 });
+    const list = await admin.get('/api/admin/mail');
+    expect(list.body.items).toHaveLength(1);
+    expect(list.body.items[0]).toMatchObject({ to: w.people.manager.email });
+    const raw = await admin.get(`/api/admin/mail/${list.body.items[0].id}/raw`);
+    expect(raw.headers['content-type']).toMatch(/message\/rfc822/);
+    const parsed = await simpleParser(raw.text);
+    expect(parsed.subject).toContain('2026-W25');
+    expect(parsed.text).toContain('Overdue');
+    expect(typeof parsed.html).toBe('string');
+    const shown = await admin.get(`/api/admin/mail/${list.body.items[0].id}`);
+    expect(shown.body.message.html).toContain('Due this week');
+  });
+
+  it('keeps a message in the outbox while the mail server refuses, retries with back-off, and sends it once', async () => {
+    clock.set('2026-06-22T06:00:00Z');
+    await signInAgain();
+    t.catcher!.setRefusing(true);
+    const res = await admin.post('/api/admin/jobs/weekly-digest/run');
+    expect(res.body.result).toMatchObject({ queued: 1, sent: 0, retrying: 1 });
+    const [queued] = await t.database.db.select().from(outbox).where(eq(outbox.dedupeKey, `digest:2026-W26:${w.people.manager.id}`));
+    expect(queued).toMatchObject({ status: 'pending', attempts: 1 });
+    expect(queued.nextAttemptAt.getTime() - clock.now().getTime()).toBe(backoffMinutes(1) * 60_000);
+    // Before the back-off has passed, nothing is tried.
+    expect((await admin.post('/api/admin/jobs/deliver-mail/run')).body.result.sent).toBe(0);
+    t.catcher!.setRefusing(false);
+    clock.advance(backoffMinutes(1) * 60_000);
+    expect((await admin.post('/api/admin/jobs/deliver-mail/run')).body.result.sent).toBe(1);
+    expect((await admin.post('/api/admin/jobs/deliver-mail/run')).body.result.sent).toBe(0);
+    const mails = (await admin.get('/api/admin/mail')).body.items.filter((m: { subject: string }) => m.subject.includes('2026-W26'));
+    expect(mails).toHaveLength(1);
+  });
+
+  it('gives up after the last try and shows the message as failed', async () => {
+    clock.set('2026-06-29T06:00:00Z');
+    await signInAgain();
+    t.catcher!.setRefusing(true);
+    await admin.post('/api/admin/jobs/weekly-digest/run');
+    for (let i = 1; i < MAX_ATTEMPTS; i++) {
+      clock.advance(backoffMinutes(i) * 60_000);
+      await admin.post('/api/admin/jobs/deliver-mail/run');
+    }
+    t.catcher!.setRefusing(false);
+    const box = (await admin.get('/api/admin/mail/outbox')).body.items;
+    const failed = box.find((m: { subject: string }) => m.subject.includes('2026-W27'));
+    expect(failed).toMatchObject({ status: 'failed', attempts: MAX_ATTEMPTS });
+    expect(failed.lastError).toBeTruthy();
+  });
+});
