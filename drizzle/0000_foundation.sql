@@ -157,6 +157,7 @@ CREATE TABLE "service_tasks" (
 	"due_date" date,
 	"estimated_minutes" integer DEFAULT 30 NOT NULL,
 	"note" text,
+	"draft" jsonb,
 	"version" integer DEFAULT 1 NOT NULL,
 	"raised_at" timestamp with time zone DEFAULT now() NOT NULL,
 	"started_at" timestamp with time zone,

@@ -1,6 +1,7 @@
 import type { JobDeps, JobResult } from './types';
 import { loadDueInputs } from '../server/services/due-data';
-import { applyDue, computeAll } from '../server/services/due';
+import { applyDue, computeAll, raiseEarlyValveChecks } from '../server/services/due';
+import { valveWarningsFor } from '../server/services/valve-warnings';
 
 /**
  * The due scan: every bike × service item through computeDue, results stored, one task per
@@ -12,14 +13,18 @@ export async function run(deps: JobDeps): Promise<JobResult> {
   const inputs = await loadDueInputs(deps.db, now);
   const computed = computeAll(inputs);
   const report = await deps.db.transaction((tx) => applyDue(tx, computed, now));
+  const warnings = await valveWarningsFor(deps.db, [...new Set(inputs.bikes.map((b) => b.siteId))]);
+  const early = await deps.db.transaction((tx) => raiseEarlyValveChecks(tx, computed, new Set(warnings.map((w) => w.bikeId)), now));
   const counts = { overdue: 0, soon: 0, ok: 0 };
   for (const c of computed) counts[c.result.status]++;
   const ms = Date.now() - started;
   return {
-    summary: `Scanned ${inputs.bikes.length} bikes, ${report.computed} items (${counts.overdue} overdue, ${counts.soon} due soon): ${report.tasksRaised} new tasks, ${report.bikesGrounded} bikes grounded, in ${ms} ms.`,
+    summary: `Scanned ${inputs.bikes.length} bikes, ${report.computed} items (${counts.overdue} overdue, ${counts.soon} due soon): ${report.tasksRaised} new tasks, ${early} early valve checks for closing valves, ${report.bikesGrounded} bikes grounded, in ${ms} ms.`,
     bikes: inputs.bikes.length,
     ...counts,
     ...report,
+    earlyValveChecks: early,
+    valveWarnings: warnings.length,
     ms,
   };
 }

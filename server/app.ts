@@ -19,6 +19,7 @@ import { calendarRoutes } from './routes/calendar';
 import { adminMailRoutes } from './routes/admin-mail';
 import { adminJobRoutes } from './routes/admin-jobs';
 import { taskRoutes } from './routes/tasks';
+import { valveRoutes } from './routes/valves';
 import type { JobDeps } from '../jobs/types';
 
 export interface AppDeps {
@@ -127,6 +128,7 @@ export function createApp(deps: AppDeps): Express {
   api.use('/', dueRoutes(ctx));
   api.use('/calendar', calendarRoutes(ctx));
   api.use('/tasks', taskRoutes(ctx));
+  api.use('/', valveRoutes(ctx));
   api.use(apiNotFound);
 
   app.use('/api', api);

@@ -11,7 +11,7 @@ export const ROLE_LABELS: Record<Role, string> = {
 /** Where each role lands after signing in. */
 export const ROLE_HOME: Record<Role, string> = {
   admin: '/admin/people',
-  manager: '/fleet',
-  technician: '/fleet',
-  desk: '/fleet',
+  manager: '/this-week',
+  technician: '/tasks',
+  desk: '/check-in',
 };

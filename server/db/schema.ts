@@ -215,6 +215,8 @@ export const serviceTasks = pgTable(
     dueDate: date('due_date', { mode: 'string' }),
     estimatedMinutes: integer('estimated_minutes').notNull().default(30),
     note: text('note'),
+    // Readings typed on a task card before it is closed, so a locked screen or another tablet loses nothing.
+    draft: jsonb('draft'),
     version: integer('version').notNull().default(1),
     raisedAt: timestamp('raised_at', { withTimezone: true }).notNull().defaultNow(),
     startedAt: timestamp('started_at', { withTimezone: true }),

@@ -6,6 +6,8 @@ import { IdParamsSchema } from '../../shared/schemas/common';
 import { AssignSchema, CloseTaskSchema, TaskListQuerySchema, type CloseTask, type TaskListQuery } from '../../shared/schemas/tasks';
 import { assignableTechnicians, assignTask, closeTask, getTask, listTasks, startTask } from '../services/tasks';
 import { notFound } from '../http-error';
+import { CloseValveTaskSchema, ValveDraftSchema, type CloseValveTask } from '../../shared/schemas/valves';
+import { closeValveTask, saveDraft, valveCard } from '../services/valve-task';
 
 export function taskRoutes(ctx: AppContext) {
   const r = Router();
@@ -38,6 +40,19 @@ export function taskRoutes(ctx: AppContext) {
 
   r.post('/:id/close', requireRole('technician', 'manager'), validate({ params: IdParamsSchema, body: CloseTaskSchema }), async (req, res) => {
     await closeTask(db, currentUser(req), id(req), req.valid.body as CloseTask, ctx.now());
+    res.json({ task: await getTask(db, currentUser(req), id(req)) });
+  });
+  r.get('/:id/valve-card', requireRole('technician', 'manager'), validate({ params: IdParamsSchema }), async (req, res) => {
+    res.json(await valveCard(db, currentUser(req), id(req)));
+  });
+
+  r.put('/:id/draft', requireRole('technician', 'manager'), validate({ params: IdParamsSchema, body: ValveDraftSchema }), async (req, res) => {
+    await saveDraft(db, currentUser(req), id(req), req.valid.body);
+    res.status(204).end();
+  });
+
+  r.post('/:id/valve-close', requireRole('technician', 'manager'), validate({ params: IdParamsSchema, body: CloseValveTaskSchema }), async (req, res) => {
+    await closeValveTask(db, currentUser(req), id(req), req.valid.body as CloseValveTask, ctx.now());
     res.json({ task: await getTask(db, currentUser(req), id(req)) });
   });
   return r;

@@ -1,4 +1,4 @@
-import { and, eq, inArray, sql } from 'drizzle-orm';
+import { and, eq, inArray, or, sql } from 'drizzle-orm';
 import type { DbOrTx as Writer } from '../db/client';
 import { bikes, dueStates, serviceTasks, userSites, users } from '../db/schema';
 import { computeDue, type DueResult } from '../../shared/domain/due';
@@ -10,6 +10,8 @@ import { doneKey, loadDueInputs, type DueInputs } from './due-data';
 export interface ComputedDue {
   bikeId: string;
   siteId: string;
+  /** The bike's site calendar date the computation was made for. */
+  today: string;
   item: DueInputs['itemsByModel'] extends Map<string, (infer I)[]> ? I : never;
   result: DueResult;
 }
@@ -28,7 +30,7 @@ export function computeAll(inputs: DueInputs): ComputedDue[] {
         readings,
         today: b.today,
       });
-      out.push({ bikeId: b.id, siteId: b.siteId, item, result });
+      out.push({ bikeId: b.id, siteId: b.siteId, today: b.today, item, result });
     }
   }
   return out;
@@ -112,11 +114,7 @@ export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): 
   let tasksRaised = 0;
   for (const c of wanted) {
     const key = cycleKey(c.result);
-    const [exists] = await db
-      .select({ id: serviceTasks.id })
-      .from(serviceTasks)
-      .where(and(eq(serviceTasks.bikeId, c.bikeId), eq(serviceTasks.serviceItemId, c.item.id), eq(serviceTasks.cycleKey, key)));
-    if (exists) continue;
+    if (await hasTask(db, c.bikeId, c.item.id, key)) continue;
     const inserted = await db
       .insert(serviceTasks)
       .values({
@@ -150,6 +148,53 @@ export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): 
     }
   }
   return { computed: computed.length, tasksRaised, bikesGrounded };
+}
+
+/** A task for this cycle already raised, or any task for the item still open (an early one, say). */
+async function hasTask(db: Writer, bikeId: string, itemId: string, key: string) {
+  const [exists] = await db
+    .select({ id: serviceTasks.id })
+    .from(serviceTasks)
+    .where(
+      and(
+        eq(serviceTasks.bikeId, bikeId),
+        eq(serviceTasks.serviceItemId, itemId),
+        or(eq(serviceTasks.cycleKey, key), inArray(serviceTasks.status, ['open', 'in_progress'])),
+      ),
+    )
+    .limit(1);
+  return !!exists;
+}
+
+/**
+ * A valve whose clearance trend reaches the spec minimum before its next check brings that check
+ * forward: an early valve task, once per due cycle, due today.
+ */
+export async function raiseEarlyValveChecks(db: Writer, computed: ComputedDue[], warnedBikeIds: Set<string>, now: Date) {
+  let raised = 0;
+  const loads = await technicianLoads(db, [...new Set(computed.filter((c) => warnedBikeIds.has(c.bikeId)).map((c) => c.siteId))]);
+  for (const c of computed) {
+    if (c.item.category !== 'valves' || !warnedBikeIds.has(c.bikeId)) continue;
+    const key = `trend:${cycleKey(c.result)}`;
+    if (await hasTask(db, c.bikeId, c.item.id, key)) continue;
+    const rows = await db
+      .insert(serviceTasks)
+      .values({
+        bikeId: c.bikeId,
+        serviceItemId: c.item.id,
+        cycleKey: key,
+        origin: 'trend',
+        dueDate: c.today,
+        estimatedMinutes: c.item.estimatedMinutes,
+        assigneeId: pickTechnician(loads.get(c.siteId), c.item.estimatedMinutes),
+        note: 'Raised early: a valve is closing up faster than the interval allows.',
+        raisedAt: now,
+      })
+      .onConflictDoNothing()
+      .returning({ id: serviceTasks.id });
+    raised += rows.length;
+  }
+  return raised;
 }
 
 /** Recomputes one bike (after a check-in or a closed task), inside the caller's transaction. */

@@ -1,0 +1,74 @@
+import { Router, type Request } from 'express';
+import { z } from 'zod';
+import type { AppContext } from '../app';
+import { currentUser, requireRole, signedIn } from '../middleware/auth';
+import { validate } from '../middleware/validate';
+import { IdParamsSchema, IdSchema } from '../../shared/schemas/common';
+import { StockAdjustSchema, StockMinSchema } from '../../shared/schemas/valves';
+import { canSeeSite } from '../../shared/domain/policies';
+import { forbidden, notFound } from '../http-error';
+import { getBike } from '../services/bikes';
+import { trendsForBikes } from '../services/valve-history';
+import { fleetRollup } from '../services/valve-rollup';
+import { valveWarningsFor } from '../services/valve-warnings';
+import { moveStock, setMinimum, stockAt } from '../services/shim-stock';
+import { reorderList } from '../services/reorder';
+import { audit } from '../audit';
+
+const SiteQuery = z.object({ siteId: IdSchema });
+
+export function valveRoutes(ctx: AppContext) {
+  const r = Router();
+  const db = ctx.database.db;
+  const mySite = (req: Request, siteId: string) => {
+    if (!canSeeSite(currentUser(req), siteId)) throw forbidden('That site is not one of yours.');
+  };
+
+  r.get('/bikes/:id/valves', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
+    const { id } = req.valid.params as { id: string };
+    const bike = await getBike(db, currentUser(req).siteIds, id);
+    if (!bike) throw notFound('That bike');
+    const [t] = await trendsForBikes(db, { bikeIds: [id] });
+    res.json({ valves: t?.valves ?? [], adjuster: t?.adjuster ?? '' });
+  });
+
+  r.get('/valves/rollup', requireRole('manager', 'admin', 'technician'), async (req, res) => {
+    res.json({ items: await fleetRollup(db, currentUser(req).siteIds) });
+  });
+
+  r.get('/valves/warnings', requireRole('manager', 'admin', 'technician'), async (req, res) => {
+    res.json({ items: await valveWarningsFor(db, currentUser(req).siteIds) });
+  });
+
+  r.get('/stock/shims', requireRole('technician', 'manager', 'admin'), validate({ query: SiteQuery }), async (req, res) => {
+    const { siteId } = req.valid.query as { siteId: string };
+    mySite(req, siteId);
+    res.json({ items: await stockAt(db, siteId) });
+  });
+
+  r.get('/stock/shims/reorder', requireRole('technician', 'manager', 'admin'), validate({ query: SiteQuery }), async (req, res) => {
+    const { siteId } = req.valid.query as { siteId: string };
+    mySite(req, siteId);
+    res.json({ items: await reorderList(db, siteId) });
+  });
+
+  r.post('/stock/shims/adjust', requireRole('technician', 'manager'), validate({ body: StockAdjustSchema }), async (req, res) => {
+    const b = req.valid.body as z.infer<typeof StockAdjustSchema>;
+    mySite(req, b.siteId);
+    const user = currentUser(req);
+    await db.transaction(async (tx) => {
+      await moveStock(tx, { ...b, by: user.id, at: ctx.now() });
+      await audit(tx, { userId: user.id, action: 'stock-adjust', entity: 'shim-stock', entityId: b.siteId, changes: b });
+    });
+    res.json({ items: await stockAt(db, b.siteId) });
+  });
+
+  r.put('/stock/shims/minimum', requireRole('manager'), validate({ body: StockMinSchema }), async (req, res) => {
+    const b = req.valid.body as z.infer<typeof StockMinSchema>;
+    mySite(req, b.siteId);
+    await setMinimum(db, b.siteId, b.sizeMm, b.minCount);
+    await audit(db, { userId: currentUser(req).id, action: 'stock-minimum', entity: 'shim-stock', entityId: b.siteId, changes: b });
+    res.json({ items: await stockAt(db, b.siteId) });
+  });
+  return r;
+}
