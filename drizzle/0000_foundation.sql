@@ -1,3 +1,21 @@
+CREATE TABLE "attachments" (
+	"id" uuid PRIMARY KEY DEFAULT gen_random_uuid() NOT NULL,
+	"site_id" uuid NOT NULL,
+	"bike_id" uuid NOT NULL,
+	"defect_id" uuid,
+	"task_id" uuid,
+	"storage_key" text NOT NULL,
+	"thumb_key" text,
+	"mime" text NOT NULL,
+	"bytes" integer NOT NULL,
+	"width" integer,
+	"height" integer,
+	"original_name" text,
+	"uploaded_by" uuid,
+	"created_at" timestamp with time zone DEFAULT now() NOT NULL,
+	CONSTRAINT "attachments_storage_key_unique" UNIQUE("storage_key")
+);
+--> statement-breakpoint
 CREATE TABLE "audit_log" (
 	"id" bigserial PRIMARY KEY NOT NULL,
 	"at" timestamp with time zone DEFAULT now() NOT NULL,
@@ -120,6 +138,18 @@ CREATE TABLE "outbox" (
 	CONSTRAINT "outbox_dedupe_key_unique" UNIQUE("dedupe_key")
 );
 --> statement-breakpoint
+CREATE TABLE "reading_templates" (
+	"id" uuid PRIMARY KEY DEFAULT gen_random_uuid() NOT NULL,
+	"service_item_id" uuid NOT NULL,
+	"label" text NOT NULL,
+	"kind" text NOT NULL,
+	"unit" text,
+	"min" double precision,
+	"max" double precision,
+	"safety_critical" boolean DEFAULT false NOT NULL,
+	"position" integer DEFAULT 0 NOT NULL
+);
+--> statement-breakpoint
 CREATE TABLE "service_items" (
 	"id" uuid PRIMARY KEY DEFAULT gen_random_uuid() NOT NULL,
 	"model_id" uuid NOT NULL,
@@ -132,6 +162,22 @@ CREATE TABLE "service_items" (
 	"safety_critical" boolean DEFAULT false NOT NULL,
 	"estimated_minutes" integer DEFAULT 30 NOT NULL,
 	"created_at" timestamp with time zone DEFAULT now() NOT NULL
+);
+--> statement-breakpoint
+CREATE TABLE "service_readings" (
+	"id" uuid PRIMARY KEY DEFAULT gen_random_uuid() NOT NULL,
+	"service_record_id" uuid NOT NULL,
+	"template_id" uuid,
+	"label" text NOT NULL,
+	"kind" text NOT NULL,
+	"unit" text,
+	"value" double precision,
+	"done" boolean,
+	"date_value" date,
+	"min" double precision,
+	"max" double precision,
+	"out_of_limits" boolean DEFAULT false NOT NULL,
+	"safety_critical" boolean DEFAULT false NOT NULL
 );
 --> statement-breakpoint
 CREATE TABLE "service_records" (
@@ -251,6 +297,11 @@ CREATE TABLE "valve_readings" (
 	"method" text DEFAULT 'feeler' NOT NULL
 );
 --> statement-breakpoint
+ALTER TABLE "attachments" ADD CONSTRAINT "attachments_site_id_sites_id_fk" FOREIGN KEY ("site_id") REFERENCES "public"."sites"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "attachments" ADD CONSTRAINT "attachments_bike_id_bikes_id_fk" FOREIGN KEY ("bike_id") REFERENCES "public"."bikes"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "attachments" ADD CONSTRAINT "attachments_defect_id_defects_id_fk" FOREIGN KEY ("defect_id") REFERENCES "public"."defects"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "attachments" ADD CONSTRAINT "attachments_task_id_service_tasks_id_fk" FOREIGN KEY ("task_id") REFERENCES "public"."service_tasks"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "attachments" ADD CONSTRAINT "attachments_uploaded_by_users_id_fk" FOREIGN KEY ("uploaded_by") REFERENCES "public"."users"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "audit_log" ADD CONSTRAINT "audit_log_user_id_users_id_fk" FOREIGN KEY ("user_id") REFERENCES "public"."users"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "bikes" ADD CONSTRAINT "bikes_model_id_bike_models_id_fk" FOREIGN KEY ("model_id") REFERENCES "public"."bike_models"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "bikes" ADD CONSTRAINT "bikes_site_id_sites_id_fk" FOREIGN KEY ("site_id") REFERENCES "public"."sites"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
@@ -260,7 +311,10 @@ ALTER TABLE "due_states" ADD CONSTRAINT "due_states_bike_id_bikes_id_fk" FOREIGN
 ALTER TABLE "due_states" ADD CONSTRAINT "due_states_service_item_id_service_items_id_fk" FOREIGN KEY ("service_item_id") REFERENCES "public"."service_items"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "odometer_readings" ADD CONSTRAINT "odometer_readings_bike_id_bikes_id_fk" FOREIGN KEY ("bike_id") REFERENCES "public"."bikes"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "odometer_readings" ADD CONSTRAINT "odometer_readings_recorded_by_users_id_fk" FOREIGN KEY ("recorded_by") REFERENCES "public"."users"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "reading_templates" ADD CONSTRAINT "reading_templates_service_item_id_service_items_id_fk" FOREIGN KEY ("service_item_id") REFERENCES "public"."service_items"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "service_items" ADD CONSTRAINT "service_items_model_id_bike_models_id_fk" FOREIGN KEY ("model_id") REFERENCES "public"."bike_models"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "service_readings" ADD CONSTRAINT "service_readings_service_record_id_service_records_id_fk" FOREIGN KEY ("service_record_id") REFERENCES "public"."service_records"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "service_readings" ADD CONSTRAINT "service_readings_template_id_reading_templates_id_fk" FOREIGN KEY ("template_id") REFERENCES "public"."reading_templates"("id") ON DELETE set null ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "service_records" ADD CONSTRAINT "service_records_bike_id_bikes_id_fk" FOREIGN KEY ("bike_id") REFERENCES "public"."bikes"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "service_records" ADD CONSTRAINT "service_records_service_item_id_service_items_id_fk" FOREIGN KEY ("service_item_id") REFERENCES "public"."service_items"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "service_records" ADD CONSTRAINT "service_records_done_by_users_id_fk" FOREIGN KEY ("done_by") REFERENCES "public"."users"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
@@ -277,6 +331,7 @@ ALTER TABLE "valve_checks" ADD CONSTRAINT "valve_checks_bike_id_bikes_id_fk" FOR
 ALTER TABLE "valve_checks" ADD CONSTRAINT "valve_checks_task_id_service_tasks_id_fk" FOREIGN KEY ("task_id") REFERENCES "public"."service_tasks"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "valve_checks" ADD CONSTRAINT "valve_checks_checked_by_users_id_fk" FOREIGN KEY ("checked_by") REFERENCES "public"."users"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "valve_readings" ADD CONSTRAINT "valve_readings_check_id_valve_checks_id_fk" FOREIGN KEY ("check_id") REFERENCES "public"."valve_checks"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
+CREATE INDEX "attachments_bike" ON "attachments" USING btree ("bike_id");--> statement-breakpoint
 CREATE INDEX "audit_log_entity" ON "audit_log" USING btree ("entity","entity_id");--> statement-breakpoint
 CREATE INDEX "bikes_site" ON "bikes" USING btree ("site_id");--> statement-breakpoint
 CREATE INDEX "bikes_model" ON "bikes" USING btree ("model_id");--> statement-breakpoint
@@ -284,7 +339,9 @@ CREATE INDEX "defects_bike" ON "defects" USING btree ("bike_id");--> statement-b
 CREATE INDEX "due_states_due_date" ON "due_states" USING btree ("due_date");--> statement-breakpoint
 CREATE INDEX "odometer_readings_bike_date" ON "odometer_readings" USING btree ("bike_id","date","odometer_km");--> statement-breakpoint
 CREATE INDEX "outbox_pending" ON "outbox" USING btree ("status","next_attempt_at");--> statement-breakpoint
+CREATE INDEX "reading_templates_item" ON "reading_templates" USING btree ("service_item_id","position");--> statement-breakpoint
 CREATE UNIQUE INDEX "service_items_model_name" ON "service_items" USING btree ("model_id","name");--> statement-breakpoint
+CREATE INDEX "service_readings_record" ON "service_readings" USING btree ("service_record_id");--> statement-breakpoint
 CREATE INDEX "service_records_bike_item" ON "service_records" USING btree ("bike_id","service_item_id","date");--> statement-breakpoint
 CREATE UNIQUE INDEX "service_tasks_cycle" ON "service_tasks" USING btree ("bike_id","service_item_id","cycle_key");--> statement-breakpoint
 CREATE INDEX "service_tasks_assignee" ON "service_tasks" USING btree ("assignee_id","status");--> statement-breakpoint

@@ -343,3 +343,64 @@ export const stockMovements = pgTable('stock_movements', {
   by: uuid('by').references(() => users.id),
   at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
 });
+
+// ── Readings with limits, attachments ────────────────────────────────────────
+
+/** What a service item asks the technician to record, with its unit and limits. */
+export const readingTemplates = pgTable(
+  'reading_templates',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    serviceItemId: uuid('service_item_id').notNull().references(() => serviceItems.id, { onDelete: 'cascade' }),
+    label: text('label').notNull(),
+    kind: text('kind', { enum: ['measure', 'check', 'date'] }).notNull(),
+    unit: text('unit'),
+    min: doublePrecision('min'),
+    max: doublePrecision('max'),
+    // A value outside a safety-critical limit grounds the bike at once.
+    safetyCritical: boolean('safety_critical').notNull().default(false),
+    position: integer('position').notNull().default(0),
+  },
+  (t) => [index('reading_templates_item').on(t.serviceItemId, t.position)],
+);
+
+export const serviceReadings = pgTable(
+  'service_readings',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    serviceRecordId: uuid('service_record_id').notNull().references(() => serviceRecords.id, { onDelete: 'cascade' }),
+    templateId: uuid('template_id').references(() => readingTemplates.id, { onDelete: 'set null' }),
+    label: text('label').notNull(),
+    kind: text('kind', { enum: ['measure', 'check', 'date'] }).notNull(),
+    unit: text('unit'),
+    value: doublePrecision('value'),
+    done: boolean('done'),
+    dateValue: date('date_value', { mode: 'string' }),
+    min: doublePrecision('min'),
+    max: doublePrecision('max'),
+    outOfLimits: boolean('out_of_limits').notNull().default(false),
+    safetyCritical: boolean('safety_critical').notNull().default(false),
+  },
+  (t) => [index('service_readings_record').on(t.serviceRecordId)],
+);
+
+export const attachments = pgTable(
+  'attachments',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+    bikeId: uuid('bike_id').notNull().references(() => bikes.id, { onDelete: 'cascade' }),
+    defectId: uuid('defect_id').references(() => defects.id, { onDelete: 'cascade' }),
+    taskId: uuid('task_id').references(() => serviceTasks.id, { onDelete: 'cascade' }),
+    storageKey: text('storage_key').notNull().unique(),
+    thumbKey: text('thumb_key'),
+    mime: text('mime').notNull(),
+    bytes: integer('bytes').notNull(),
+    width: integer('width'),
+    height: integer('height'),
+    originalName: text('original_name'),
+    uploadedBy: uuid('uploaded_by').references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index('attachments_bike').on(t.bikeId)],
+);

@@ -6,6 +6,9 @@ import { IdParamsSchema } from '../../shared/schemas/common';
 import { AssignSchema, CloseTaskSchema, TaskListQuerySchema, type CloseTask, type TaskListQuery } from '../../shared/schemas/tasks';
 import { assignableTechnicians, assignTask, closeTask, getTask, listTasks, startTask } from '../services/tasks';
 import { notFound } from '../http-error';
+import { eq } from 'drizzle-orm';
+import { serviceTasks } from '../db/schema';
+import { recordReadings, templatesFor } from '../services/task-readings';
 import { CloseValveTaskSchema, ValveDraftSchema, type CloseValveTask } from '../../shared/schemas/valves';
 import { closeValveTask, saveDraft, valveCard } from '../services/valve-task';
 
@@ -25,7 +28,7 @@ export function taskRoutes(ctx: AppContext) {
   r.get('/:id', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
     const task = await getTask(db, currentUser(req), id(req));
     if (!task) throw notFound('That task');
-    res.json({ task });
+    res.json({ task, readings: (await templatesFor(db, [task.itemId])).get(task.itemId) ?? [] });
   });
 
   r.post('/:id/assign', requireRole('manager', 'admin'), validate({ params: IdParamsSchema, body: AssignSchema }), async (req, res) => {
@@ -39,8 +42,14 @@ export function taskRoutes(ctx: AppContext) {
   });
 
   r.post('/:id/close', requireRole('technician', 'manager'), validate({ params: IdParamsSchema, body: CloseTaskSchema }), async (req, res) => {
-    await closeTask(db, currentUser(req), id(req), req.valid.body as CloseTask, ctx.now());
-    res.json({ task: await getTask(db, currentUser(req), id(req)) });
+    const user = currentUser(req);
+    const body = req.valid.body as CloseTask;
+    let grounded = false;
+    await closeTask(db, user, id(req), body, ctx.now(), async (tx, c) => {
+      const [t] = await tx.select({ itemId: serviceTasks.serviceItemId }).from(serviceTasks).where(eq(serviceTasks.id, c.taskId));
+      ({ grounded } = await recordReadings(tx, { ...c, serviceItemId: t.itemId }, body.readings, user, ctx.now()));
+    });
+    res.json({ task: await getTask(db, user, id(req)), grounded });
   });
   r.get('/:id/valve-card', requireRole('technician', 'manager'), validate({ params: IdParamsSchema }), async (req, res) => {
     res.json(await valveCard(db, currentUser(req), id(req)));

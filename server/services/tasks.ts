@@ -130,12 +130,12 @@ export interface CloseInput {
  * the bike from the workshop when nothing else is on the bench, and recomputes its dues.
  * `extra` writes what a particular kind of task records (valve readings, shim stock) in the same transaction.
  */
-export async function closeTask(db: Db, user: SessionUser, id: string, input: CloseInput, now: Date, extra?: (tx: Tx, ctx: { taskId: string; bikeId: string; siteId: string; date: string; odometerKm: number; recordId: string }) => Promise<void>) {
+export async function closeTask(db: Db, user: SessionUser, id: string, input: CloseInput, now: Date, extra?: (tx: Tx, ctx: { taskId: string; bikeId: string; siteId: string; date: string; odometerKm: number; recordId: string }) => Promise<void>, fromValveCard = false) {
   return db.transaction(async (tx) => {
     const row = await lockTask(tx, user, id);
     if (row.t.status === 'done' || row.t.status === 'cancelled') throw closedAlready(row.t.status);
     if (row.t.version !== input.version) throw conflict('Someone changed this task while you worked on it. Reload it; your readings are kept on this device.');
-    if (row.category === 'valves' && !extra) throw new HttpError(409, 'conflict', 'A valve clearance task is closed from its task card, with a reading for every valve.');
+    if ((row.category === 'valves') !== fromValveCard) throw new HttpError(409, 'conflict', fromValveCard ? 'This is not a valve clearance task.' : 'A valve clearance task is closed from its task card, with a reading for every valve.');
     const today = todayInZone(row.timeZone, now);
     const date = input.date ?? today;
     if (date > today) throw badRequest('The date is after today.', [{ path: 'date', message: 'In the future.' }]);
@@ -154,7 +154,8 @@ export async function closeTask(db: Db, user: SessionUser, id: string, input: Cl
       .set({ status: 'cancelled', closedAt: now, closedBy: user.id, note: 'Met by another task', version: sql`${serviceTasks.version} + 1` })
       .where(and(eq(serviceTasks.bikeId, row.t.bikeId), eq(serviceTasks.serviceItemId, row.t.serviceItemId), ne(serviceTasks.id, id), inArray(serviceTasks.status, ['open', 'in_progress'])));
     const [stillOnBench] = await tx.select({ id: serviceTasks.id }).from(serviceTasks).where(and(eq(serviceTasks.bikeId, row.t.bikeId), eq(serviceTasks.status, 'in_progress'))).limit(1);
-    if (!stillOnBench && bike.status === 'in_workshop') await tx.update(bikes).set({ status: 'in_service', updatedAt: now }).where(eq(bikes.id, row.t.bikeId));
+    // Conditional on the state now: a reading taken on this task may just have grounded the bike.
+    if (!stillOnBench) await tx.update(bikes).set({ status: 'in_service', updatedAt: now }).where(and(eq(bikes.id, row.t.bikeId), eq(bikes.status, 'in_workshop')));
     await audit(tx, { userId: user.id, action: 'close', entity: 'task', entityId: id, changes: { date, odometerKm, notes: input.notes ?? null } });
     await recomputeBike(tx, row.t.bikeId, now);
     return { recordId: record.id };

@@ -119,5 +119,5 @@ export async function closeValveTask(db: Db, user: SessionUser, taskId: string, 
       await takeShim(tx, c.siteId, after, `Fitted to ${m.slot.label}`, taskId, user.id, now);
     }
     await tx.update(serviceTasks).set({ draft: null }).where(eq(serviceTasks.id, taskId));
-  });
+  }, true);
 }

@@ -44,12 +44,33 @@ export type TaskListQuery = z.infer<typeof TaskListQuerySchema>;
 
 export const AssignSchema = z.object({ assigneeId: IdSchema.nullable() });
 
+export const ReadingValueSchema = z.object({
+  templateId: IdSchema,
+  value: z.number().min(-1000).max(100_000).nullable().optional(),
+  done: z.boolean().nullable().optional(),
+  dateValue: IsoDateSchema.nullable().optional(),
+});
+export type ReadingValue = z.infer<typeof ReadingValueSchema>;
+
 export const CloseTaskSchema = z.object({
   /** The version the closer saw: a task changed meanwhile is not closed twice. */
   version: z.number().int().positive(),
   date: IsoDateSchema.optional(),
   notes: z.string().trim().max(MAX_TEXT).optional(),
+  /** One value per reading the service item asks for. */
+  readings: z.array(ReadingValueSchema).max(40).default([]),
 });
+
+export const ReadingTemplateSchema = z.object({
+  id: IdSchema,
+  label: z.string(),
+  kind: z.enum(['measure', 'check', 'date']),
+  unit: z.string().nullable(),
+  min: z.number().nullable(),
+  max: z.number().nullable(),
+  safetyCritical: z.boolean(),
+});
+export type ReadingTemplate = z.infer<typeof ReadingTemplateSchema>;
 export type CloseTask = z.infer<typeof CloseTaskSchema>;
 
 export const AssigneeListSchema = z.object({ items: z.array(z.object({ id: IdSchema, name: z.string(), siteIds: z.array(IdSchema), openMinutes: z.number() })) });
