@@ -35,9 +35,11 @@ export function startScheduler(deps: JobDeps, schedules: Schedule[]) {
       { timezone: s.timeZone, noOverlap: true, name: s.job },
     ),
   );
-  const catchUp = Promise.all(
-    schedules.filter((s) => s.catchUp).map((s) => runScheduled(deps, s).catch((e) => deps.log(`[${s.job}] catch-up failed: ${e instanceof Error ? e.message : e}`))),
-  );
+  // In order: the due list mailed after a missed Monday must read the scan that ran just before it.
+  const catchUp = (async () => {
+    for (const s of schedules.filter((x) => x.catchUp))
+      await runScheduled(deps, s).catch((e) => deps.log(`[${s.job}] catch-up failed: ${e instanceof Error ? e.message : e}`));
+  })();
   return {
     catchUp,
     stop: async () => {

@@ -1,10 +1,11 @@
+import { demoReadingTemplates } from './reading-templates';
 import { count } from 'drizzle-orm';
 import type { PgTable } from 'drizzle-orm/pg-core';
 import { TZDate } from '@date-fns/tz';
 import { format } from 'date-fns';
 import type { Db } from '../db/client';
 import {
-  bikeModels, bikes, defects, odometerReadings, serviceItems, serviceRecords, shimStock, sites, userSites, users,
+  bikeModels, bikes, defects, readingTemplates, odometerReadings, serviceItems, serviceRecords, shimStock, sites, userSites, users,
   valveChecks, valveReadings,
 } from '../db/schema';
 import { hashPassword } from '../auth/passwords';
@@ -39,6 +40,7 @@ export async function seedDemo(db: Db, opts: { password: string; today?: string 
     await insertAll(tx, userSites, s.userSites);
     await insertAll(tx, bikeModels, s.models);
     await insertAll(tx, serviceItems, s.serviceItems);
+    await insertAll(tx, readingTemplates, demoReadingTemplates(s.serviceItems));
     await insertAll(tx, bikes, s.bikes);
     await insertAll(tx, odometerReadings, s.odometerReadings);
     await insertAll(tx, serviceRecords, s.serviceRecords);

@@ -22,6 +22,7 @@ import { fleetNumberTaken, getBike, listBikes, readingsOf } from '../services/bi
 import { recordCheckIn } from '../services/check-in';
 import { listDue } from '../services/due-list';
 import { rideVerdict } from '../services/ride-check';
+import { bikeTimeline } from '../services/timeline';
 import { CheckInSchema, type CheckIn } from '../../shared/schemas/due';
 
 const fleetTaken = (n: string) =>
@@ -51,6 +52,12 @@ export function bikeRoutes(ctx: AppContext) {
     if (!bike) throw notFound('That bike');
     const due = await listDue(db, [bike.site.id], { bikeId: id, all: true }, ctx.now());
     res.json({ bike, readings: await readingsOf(db, id), due, ride: rideVerdict(bike, due) });
+  });
+
+  r.get('/:id/timeline', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
+    const { id } = req.valid.params as { id: string };
+    if (!(await getBike(db, currentUser(req).siteIds, id))) throw notFound('That bike');
+    res.json({ items: await bikeTimeline(db, id) });
   });
 
   r.post(

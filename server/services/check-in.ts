@@ -12,6 +12,7 @@ import { audit } from '../audit';
 import { enqueue } from '../mail/outbox';
 import { recomputeBike } from './due';
 
+const day = (iso: string) => new Date(`${iso}T00:00:00Z`).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
 const fmt = (v: number, unit: string) => `${new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1 }).format(v)} ${unit}`;
 
 /** Records a check-in: validates the reading against the last one, stores it, reports a defect, recomputes the bike's dues. */
@@ -43,19 +44,19 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
       today,
     });
     if (check.kind === 'future_date')
-      throw badRequest(`The date is after today (${today}). Enter today's date or an earlier one.`, [{ path: 'date', message: 'In the future.' }]);
+      throw badRequest(`The date is after today (${day(today)}). Enter today's date or an earlier one.`, [{ path: 'date', message: 'In the future.' }]);
     if (check.kind === 'before_last_date')
-      throw conflict(`The last check-in is dated ${check.lastDate}; a reading cannot be dated before it.`, [{ path: 'date', message: `Before ${check.lastDate}.` }]);
+      throw conflict(`The last check-in is dated ${day(check.lastDate)}; a reading cannot be dated before it.`, [{ path: 'date', message: `Before ${day(check.lastDate)}.` }]);
     if (check.kind === 'lower_than_last')
       throw conflict(
-        `The odometer cannot go backwards: the last reading was ${fmt(check.lastValue, check.lastUnit)} on ${check.lastDate}. Check the digits. If the odometer was replaced, a technician or manager records it as a new odometer.`,
+        `The odometer cannot go backwards: the last reading was ${fmt(check.lastValue, check.lastUnit)} on ${day(check.lastDate)}. Check the digits. If the odometer was replaced, a technician or manager records it as a new odometer.`,
         [{ path: 'odometer', message: `Lower than the last reading, ${fmt(check.lastValue, check.lastUnit)}.` }],
       );
     if (check.kind === 'big_jump' && !input.confirmLargeJump)
       throw new HttpError(
         409,
         'needs_confirmation',
-        `That is ${fmt(check.km, 'km')} in ${check.days || 1} day(s), more than 1,000 km a day. Check the reading; if it is right, confirm it.`,
+        `That is ${fmt(check.km, 'km')} in ${check.days > 1 ? `${check.days} days` : 'one day'}, more than 1,000 km a day. Check the reading; if it is right, confirm it.`,
         [{ path: 'odometer', message: 'Unusually large distance: confirm to save.' }],
       );
 

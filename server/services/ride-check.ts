@@ -12,6 +12,9 @@ export function rideVerdict(bike: BikeSummary, due: DueItem[]): RideVerdict {
   if (bike.status === 'out_of_service') reasons.push(`Grounded: ${bike.statusReason ?? 'no reason recorded'}`);
   if (bike.status === 'in_workshop') reasons.push('In the workshop: not released yet.');
   if (bike.status === 'retired') reasons.push('Retired from the fleet.');
-  for (const d of due) if (d.safetyCritical && d.status === 'overdue') reasons.push(`Overdue safety-critical work: ${d.item}.`);
+  for (const d of due) {
+    // The grounding reason may already name the item.
+    if (d.safetyCritical && d.status === 'overdue' && !reasons.some((r) => r.includes(d.item))) reasons.push(`Overdue safety-critical work: ${d.item}.`);
+  }
   return { mayRide: reasons.length === 0, reasons };
 }

@@ -3,14 +3,32 @@ import type { Role } from '../../shared/roles';
 export interface NavItem {
   to: string;
   label: string;
-  roles: Role[];
 }
 
-/** Navigation follows the role: each sees what their work needs, first thing first. */
-export const NAV: NavItem[] = [
-  { to: '/fleet', label: 'Fleet', roles: ['manager', 'technician', 'desk', 'admin'] },
-  { to: '/admin/people', label: 'People', roles: ['admin'] },
-  { to: '/admin/sites', label: 'Sites', roles: ['admin'] },
-];
+/** Navigation follows the role: each sees what their work needs, and the first item is where they land. */
+const NAV: Record<Role, NavItem[]> = {
+  desk: [
+    { to: '/check-in', label: 'Check-in' },
+    { to: '/fleet', label: 'Fleet' },
+  ],
+  technician: [
+    { to: '/tasks', label: 'My tasks' },
+    { to: '/check-in', label: 'Check-in' },
+    { to: '/fleet', label: 'Fleet' },
+  ],
+  manager: [
+    { to: '/this-week', label: 'This week' },
+    { to: '/fleet', label: 'Fleet' },
+    { to: '/tasks', label: 'Tasks' },
+    { to: '/check-in', label: 'Check-in' },
+  ],
+  admin: [
+    { to: '/admin/people', label: 'People' },
+    { to: '/admin/sites', label: 'Sites' },
+    { to: '/admin/mail', label: 'Mail and jobs' },
+    { to: '/fleet', label: 'Fleet' },
+    { to: '/this-week', label: 'This week' },
+  ],
+};
 
-export const navFor = (role: Role) => NAV.filter((n) => n.roles.includes(role));
+export const navFor = (role: Role) => NAV[role];

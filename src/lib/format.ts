@@ -12,3 +12,51 @@ export function formatDate(iso: string | null | undefined) {
   const [y, m, d] = iso.split('-').map(Number);
   return new Date(Date.UTC(y, m - 1, d)).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
 }
+
+/** Distance left before an item is due, in the bike's unit; once past, how far over. */
+export function formatDistanceLeft(v: number | null | undefined, unit: string) {
+  if (v == null) return '—';
+  const r = Math.round(v);
+  return r < 0 ? `${nf.format(-r)} ${unit} over` : `${nf.format(r)} ${unit}`;
+}
+
+/** Days left before a due date, in words: "today", "3 days", "4 days late". */
+export function formatDaysLeft(d: number | null | undefined) {
+  if (d == null) return '—';
+  if (d === 0) return 'today';
+  const n = Math.abs(d);
+  const days = `${n} ${n === 1 ? 'day' : 'days'}`;
+  return d < 0 ? `${days} late` : days;
+}
+
+/** What makes an item due: the distance run or the calendar. */
+export function formatTrigger(trigger: 'km' | 'calendar' | null | undefined, unit = 'km') {
+  if (trigger === 'km') return unit === 'mi' ? 'by miles' : 'by km';
+  if (trigger === 'calendar') return 'by date';
+  return '—';
+}
+
+export function formatMinutes(m: number | null | undefined) {
+  if (m == null) return '—';
+  const h = Math.floor(m / 60);
+  const rest = Math.round(m % 60);
+  if (!h) return `${rest} min`;
+  return rest ? `${h} h ${rest} min` : `${h} h`;
+}
+
+/** Today's calendar date on this device, as YYYY-MM-DD. */
+export function todayIso(now = new Date()) {
+  const p = (n: number) => String(n).padStart(2, '0');
+  return `${now.getFullYear()}-${p(now.getMonth() + 1)}-${p(now.getDate())}`;
+}
+
+export function addDaysIso(iso: string, days: number) {
+  const [y, m, d] = iso.split('-').map(Number);
+  return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10);
+}
+
+/** An instant (ISO timestamp) as people read it, in this device's time zone. */
+export function formatDateTime(iso: string | null | undefined) {
+  if (!iso) return '—';
+  return new Date(iso).toLocaleString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
+}

@@ -1,6 +1,7 @@
 import { Link, useParams } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
 import { DataTable, type Columns } from '../../../components/ui/data-table';
+import { RideVerdictPanel } from '../../../components/ui/ride-verdict';
 import { ErrorPanel, Loading, SafetyNote } from '../../../components/ui/states';
 import { BikeStatusBadge } from '../../../components/ui/status-badge';
 import { formatDate, formatKm, formatOdometer } from '../../../lib/format';
@@ -9,6 +10,7 @@ import type { OdometerReading } from '../../../../shared/schemas/bikes';
 import { canChangeStatus } from '../../../../shared/domain/policies';
 import { bikeQueries } from '../api';
 import { StatusForm } from '../components/status-form';
+import { WhatIsDue } from '../components/what-is-due';
 
 const readingColumns: Columns<OdometerReading> = [
   { id: 'date', accessorKey: 'date', header: 'Date', cell: (c) => <span className="num">{formatDate(c.row.original.date)}</span> },
@@ -34,7 +36,7 @@ export function BikePageRoute() {
   const q = useQuery(bikeQueries.detail(id));
   if (q.isPending) return <Loading what="the bike" />;
   if (q.error) return <ErrorPanel error={q.error} retry={() => q.refetch()} />;
-  const { bike, readings } = q.data;
+  const { bike, readings, due, ride } = q.data;
   return (
     <article className="flex flex-col gap-6">
       <div>
@@ -46,12 +48,8 @@ export function BikePageRoute() {
         <p className="text-lg text-ink-soft">
           {bike.model.name} · {bike.site.name}
         </p>
-        {bike.status === 'out_of_service' && (
-          <p role="alert" className="mt-3 rounded-card border-2 border-state-stop bg-state-stop-soft p-4 text-lg font-semibold text-state-stop">
-            ■ Grounded: do not hand this bike to a rider. {bike.statusReason}
-          </p>
-        )}
       </div>
+      <RideVerdictPanel ride={ride} />
       <section aria-labelledby="facts" className="grid gap-3 rounded-card border-2 border-ink-line bg-paper-raised p-5 sm:grid-cols-2 lg:grid-cols-4">
         <h2 id="facts" className="sr-only">Details</h2>
         <Fact label="Odometer now" value={formatOdometer(bike.latestOdometer, bike.odometerUnit)} big />
@@ -62,6 +60,7 @@ export function BikePageRoute() {
         <Fact label="Odometer reads" value={bike.odometerUnit === 'mi' ? 'miles' : 'kilometres'} />
       </section>
       {canChangeStatus(me) && <StatusForm bike={bike} />}
+      <WhatIsDue bike={bike} due={due} />
       <section aria-labelledby="history">
         <h2 id="history" className="mb-2 text-xl font-bold">Odometer history</h2>
         <DataTable caption="Odometer history" columns={readingColumns} data={readings} pageSize={20} empty="No check-ins recorded yet." />

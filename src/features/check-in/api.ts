@@ -1,0 +1,26 @@
+import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
+import type { z } from 'zod';
+import { api } from '../../lib/api-client';
+import { BikeDetailSchema, BikeListSchema, CheckInResultSchema } from '../../../shared/schemas/bikes';
+import type { CheckIn } from '../../../shared/schemas/due';
+
+// The same keys as the fleet screens use, so a bike fetched on one is fresh on the other.
+export const checkInQueries = {
+  bikes: () => queryOptions({ queryKey: ['bikes', 'list', {}], queryFn: () => api.get('/api/bikes', BikeListSchema, {}) }),
+  bike: (id: string) => queryOptions({ queryKey: ['bikes', 'detail', id], queryFn: () => api.get(`/api/bikes/${id}`, BikeDetailSchema) }),
+};
+
+export type CheckInResult = z.infer<typeof CheckInResultSchema>;
+
+export function useCheckIn(bikeId: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: CheckIn) => api.post(`/api/bikes/${bikeId}/check-ins`, body, CheckInResultSchema),
+    onSuccess: () => {
+      // A reading moves the bike's dues and perhaps its state: every list that shows them.
+      void qc.invalidateQueries({ queryKey: ['bikes'] });
+      void qc.invalidateQueries({ queryKey: ['due'] });
+      void qc.invalidateQueries({ queryKey: ['tasks'] });
+    },
+  });
+}

@@ -1,0 +1,54 @@
+import { useMemo } from 'react';
+import { useQuery } from '@tanstack/react-query';
+import { DataTable } from '../../../components/ui/data-table';
+import { ErrorPanel, Loading, PageHeader, SafetyNote } from '../../../components/ui/states';
+import { formatDate } from '../../../lib/format';
+import { referenceQueries } from '../../../lib/reference-queries';
+import { dueQueries } from '../api';
+import { CalendarFeed } from '../components/calendar-feed';
+import { weekColumns } from '../components/due-columns';
+import { DueListPanel } from '../components/due-list-panel';
+import { GroundedList } from '../components/grounded-list';
+import { SiteSummary } from '../components/site-summary';
+import { WeekSection } from '../components/week-section';
+
+/** The manager's Monday: what is late, what comes this week, what stands in the yard. */
+export function ThisWeekRoute() {
+  const week = useQuery(dueQueries.list({ within: 7 }));
+  const bikes = useQuery(dueQueries.bikes());
+  const sites = useQuery(referenceQueries.sites());
+  const overdue = useMemo(() => week.data?.items.filter((d) => d.status === 'overdue') ?? [], [week.data]);
+  const soon = useMemo(() => week.data?.items.filter((d) => d.status !== 'overdue') ?? [], [week.data]);
+  const grounded = useMemo(() => bikes.data?.items.filter((b) => b.status === 'out_of_service') ?? [], [bikes.data]);
+  const knownItems = useMemo(() => [...new Set(week.data?.items.map((d) => d.item))], [week.data]);
+
+  const error = week.error ?? bikes.error;
+  return (
+    <div className="flex flex-col gap-6">
+      <PageHeader title="This week">
+        {week.data && <p className="num self-center text-ink-soft">Today is {formatDate(week.data.today)}</p>}
+      </PageHeader>
+      {week.isPending || bikes.isPending ? (
+        <Loading what="this week’s work" />
+      ) : error ? (
+        <ErrorPanel error={error} retry={() => { void week.refetch(); void bikes.refetch(); }} />
+      ) : (
+        <>
+          <SiteSummary sites={sites.data?.items ?? []} due={week.data!.items} bikes={bikes.data!.items} />
+          <WeekSection title="Overdue" icon="!" count={overdue.length} tone="stop">
+            <DataTable caption="Overdue work" columns={weekColumns} data={overdue} pageSize={100} empty="✓ Nothing is overdue." />
+          </WeekSection>
+          <WeekSection title="Due within 7 days" icon="◔" count={soon.length} tone="soon">
+            <DataTable caption="Due within 7 days" columns={weekColumns} data={soon} pageSize={100} empty="Nothing else falls due this week." />
+          </WeekSection>
+          <WeekSection title="Out of service" icon="■" count={grounded.length} tone="ink">
+            <GroundedList bikes={grounded} />
+          </WeekSection>
+        </>
+      )}
+      <DueListPanel knownItems={knownItems} />
+      <CalendarFeed />
+      <SafetyNote />
+    </div>
+  );
+}
