@@ -20,6 +20,12 @@ import { adminMailRoutes } from './routes/admin-mail';
 import { adminJobRoutes } from './routes/admin-jobs';
 import { taskRoutes } from './routes/tasks';
 import { valveRoutes } from './routes/valves';
+import { planRoutes } from './routes/plans';
+import { settingsRoutes } from './routes/settings';
+import { importRoutes } from './routes/imports';
+import { attachmentRoutes } from './routes/attachments';
+import type { BlobStore } from './storage/types';
+import { createMemoryBlobStore } from './storage/memory';
 import type { JobDeps } from '../jobs/types';
 
 export interface AppDeps {
@@ -30,6 +36,9 @@ export interface AppDeps {
   now?: () => Date;
   /** A secret the command-line job runner sends to run jobs on this server (kept in the lock file). */
   jobToken?: string;
+  /** Uploaded photos and documents (disk under DATA_DIR, or S3-compatible). */
+  blobStore?: BlobStore;
+  uploadMaxBytes?: number;
   /** Outgoing mail: the SMTP transport (SMTP_URL, or the built-in catcher). */
   mail?: JobDeps['mail'];
   /** Serves the client (production build or Vite in middleware mode), mounted after the API. */
@@ -129,6 +138,10 @@ export function createApp(deps: AppDeps): Express {
   api.use('/calendar', calendarRoutes(ctx));
   api.use('/tasks', taskRoutes(ctx));
   api.use('/', valveRoutes(ctx));
+  api.use('/', planRoutes(ctx));
+  api.use('/', settingsRoutes(ctx));
+  api.use('/', importRoutes(ctx));
+  api.use('/', attachmentRoutes(ctx, deps.blobStore ?? createMemoryBlobStore(), { maxBytes: deps.uploadMaxBytes }));
   api.use(apiNotFound);
 
   app.use('/api', api);

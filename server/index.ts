@@ -14,6 +14,7 @@ import { startMailCatcher, type MailCatcher } from './mail/catcher';
 import { createTransport } from './mail/transport';
 import { startScheduler } from '../jobs';
 import { updateLock } from './db/data-dir-lock';
+import { createBlobStore, uploadMaxBytesFromEnv } from './storage';
 
 const args = new Set(process.argv.slice(2));
 const dev = args.has('--dev');
@@ -43,10 +44,13 @@ async function main() {
   let catcher: MailCatcher | undefined;
   if (!config.SMTP_URL) catcher = await startMailCatcher(database.db, config.MAIL_CATCHER_PORT);
   const transport = createTransport(config.SMTP_URL, catcher?.port);
+  const blobStore = createBlobStore(process.env, dataDir);
   const jobToken = randomBytes(24).toString('base64url');
   const httpServer = createServer();
   const app = createApp({
     jobToken,
+    blobStore,
+    uploadMaxBytes: uploadMaxBytesFromEnv(process.env),
     database,
     config,
     sessionSecret: await sessionSecret(database.db, config.SESSION_SECRET),

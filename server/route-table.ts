@@ -21,7 +21,7 @@ export function listRoutes(app: Express): RouteEntry[] {
       if (layer.route) {
         const first = layer.route.stack[0]?.handle;
         for (const method of Object.keys(layer.route.methods)) {
-          out.push({ method: method.toUpperCase(), path: prefix + layer.route.path, rule: ruleOf(first) });
+          out.push({ method: method.toUpperCase(), path: (prefix + layer.route.path).replace(/(.)\/$/, '$1'), rule: ruleOf(first) });
         }
       } else if (layer.handle.stack) {
         const raw = typeof layer.rawPath === 'string' ? layer.rawPath : '';

@@ -21,13 +21,16 @@ const NAV: Record<Role, NavItem[]> = {
     { to: '/fleet', label: 'Fleet' },
     { to: '/tasks', label: 'Tasks' },
     { to: '/check-in', label: 'Check-in' },
+    { to: '/plans', label: 'Models and plans' },
   ],
   admin: [
     { to: '/admin/people', label: 'People' },
     { to: '/admin/sites', label: 'Sites' },
     { to: '/admin/mail', label: 'Mail and jobs' },
+    { to: '/admin/settings', label: 'Settings' },
     { to: '/fleet', label: 'Fleet' },
     { to: '/this-week', label: 'This week' },
+    { to: '/plans', label: 'Models and plans' },
   ],
 };
 

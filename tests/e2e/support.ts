@@ -14,15 +14,21 @@ export interface Running {
   url: string;
   dataDir: string;
   proc: ChildProcess;
+  /** Sends a signal to the server's whole process group. */
+  signal(sig: NodeJS.Signals): void;
+  exited: Promise<number | null>;
   stop(): Promise<void>;
 }
 
 /** Starts the real server with the demo scenario on a fresh data directory and a free port. */
-export async function startDemoServer(env: Record<string, string> = {}): Promise<Running> {
-  const dataDir = await mkdtemp(join(tmpdir(), 'lashline-e2e-'));
-  const proc = spawn('npx', ['tsx', 'server/index.ts', '--demo'], {
+export async function startDemoServer(env: Record<string, string> = {}, existingDataDir?: string): Promise<Running> {
+  const dataDir = existingDataDir ?? (await mkdtemp(join(tmpdir(), 'lashline-e2e-')));
+  // Node itself with tsx as a loader: signals reach the server, not a wrapper.
+  const proc = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts', '--demo'], {
     env: { ...process.env, NODE_ENV: 'production', PORT: '0', DATA_DIR: dataDir, DEMO_PASSWORD, ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
+    // Its own process group, so a signal reaches the server and not only the npx wrapper.
+    detached: true,
   });
   let log = '';
   const url = await new Promise<string>((resolve, reject) => {
@@ -39,17 +45,25 @@ export async function startDemoServer(env: Record<string, string> = {}): Promise
     proc.stderr!.on('data', onData);
     proc.on('exit', (code) => reject(new Error(`Server exited with ${code}:\n${log}`)));
   });
+  const exited = new Promise<number | null>((r) => proc.once('exit', (code) => r(code)));
+  const signal = (sig: NodeJS.Signals) => {
+    try {
+      process.kill(-proc.pid!, sig);
+    } catch {
+      // Already gone.
+    }
+  };
   return {
     url,
     dataDir,
     proc,
+    signal,
+    exited,
     async stop() {
-      if (proc.exitCode === null) {
-        const exited = new Promise((r) => proc.once('exit', r));
-        proc.kill('SIGTERM');
-        await exited;
-      }
-      await rm(dataDir, { recursive: true, force: true });
+      signal('SIGTERM');
+      await Promise.race([exited, new Promise((r) => setTimeout(r, 15_000))]);
+      signal('SIGKILL');
+      if (!existingDataDir) await rm(dataDir, { recursive: true, force: true });
     },
   };
 }

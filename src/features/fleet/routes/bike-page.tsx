@@ -9,6 +9,7 @@ import { useMe } from '../../../lib/use-me';
 import type { OdometerReading } from '../../../../shared/schemas/bikes';
 import { canChangeStatus } from '../../../../shared/domain/policies';
 import { bikeQueries } from '../api';
+import { BikeTimeline } from '../components/bike-timeline';
 import { StatusForm } from '../components/status-form';
 import { WhatIsDue } from '../components/what-is-due';
 
@@ -61,6 +62,7 @@ export function BikePageRoute() {
       </section>
       {canChangeStatus(me) && <StatusForm bike={bike} />}
       <WhatIsDue bike={bike} due={due} />
+      <BikeTimeline bikeId={bike.id} />
       <section aria-labelledby="history">
         <h2 id="history" className="mb-2 text-xl font-bold">Odometer history</h2>
         <DataTable caption="Odometer history" columns={readingColumns} data={readings} pageSize={20} empty="No check-ins recorded yet." />
