@@ -1,9 +1,9 @@
-import { and, desc, eq, inArray } from 'drizzle-orm';
+import { and, desc, eq, inArray, lt } from 'drizzle-orm';
+import { continuousKm, currentOdometers } from './odometer-anchor';
 import type { Db, Tx } from '../db/client';
 import { bikes, defects, odometerReadings, sites, userSites, users } from '../db/schema';
 import { validateNextReading } from '../../shared/domain/odometer';
 import { todayInZone } from '../../shared/domain/dates';
-import { toKm } from '../../shared/domain/units';
 import type { CheckIn } from '../../shared/schemas/due';
 import type { SessionUser } from '../../shared/schemas/auth';
 import { canSeeSite } from '../../shared/domain/policies';
@@ -32,25 +32,36 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
     if (bike.status === 'retired') throw conflict('This bike is retired. A manager can bring it back before it is checked in.');
     const today = todayInZone(row.timeZone, now);
     const date = input.date ?? today;
-    const [last] = await tx
+    const [latest] = await tx
       .select()
       .from(odometerReadings)
       .where(eq(odometerReadings.bikeId, bikeId))
       .orderBy(desc(odometerReadings.date), desc(odometerReadings.odometerKm), desc(odometerReadings.createdAt))
       .limit(1);
+    if (latest && date < latest.date)
+      throw conflict(`The last check-in is dated ${day(latest.date)}; a reading cannot be dated before it.`, [{ path: 'date', message: `Before ${day(latest.date)}.` }]);
+    // Judged on the continuous km scale against the highest reading of the days before: readings of
+    // one day may arrive in any order (two counters, a late entry), and the highest stays current.
+    const unit = bike.odometerUnit;
+    const odometer = (await currentOdometers(tx, [bike])).get(bike.id)!;
+    const odometerKm = input.reset ? (latest?.odometerKm ?? odometer.startCumulativeKm) : continuousKm(input.odometer, unit, odometer);
+    const [prior] = await tx
+      .select()
+      .from(odometerReadings)
+      .where(and(eq(odometerReadings.bikeId, bikeId), lt(odometerReadings.date, date)))
+      .orderBy(desc(odometerReadings.odometerKm))
+      .limit(1);
     const check = validateNextReading({
-      last: last ? { date: last.date, value: last.value, unit: last.unit, reset: last.reset } : null,
-      next: { date, value: input.odometer, unit: bike.odometerUnit, reset: input.reset },
+      last: prior ? { date: prior.date, value: prior.odometerKm, unit: 'km' } : null,
+      next: { date, value: odometerKm, unit: 'km', reset: input.reset },
       today,
     });
     if (check.kind === 'future_date')
       throw badRequest(`The date is after today (${day(today)}). Enter today's date or an earlier one.`, [{ path: 'date', message: 'In the future.' }]);
-    if (check.kind === 'before_last_date')
-      throw conflict(`The last check-in is dated ${day(check.lastDate)}; a reading cannot be dated before it.`, [{ path: 'date', message: `Before ${day(check.lastDate)}.` }]);
-    if (check.kind === 'lower_than_last')
+    if (check.kind === 'lower_than_last' && prior)
       throw conflict(
-        `The odometer cannot go backwards: the last reading was ${fmt(check.lastValue, check.lastUnit)} on ${day(check.lastDate)}. Check the digits. If the odometer was replaced, a technician or manager records it as a new odometer.`,
-        [{ path: 'odometer', message: `Lower than the last reading, ${fmt(check.lastValue, check.lastUnit)}.` }],
+        `The odometer cannot go backwards: the last reading was ${fmt(prior.value, prior.unit)} on ${day(prior.date)}. Check the digits. If the odometer was replaced, a technician or manager records it as a new odometer.`,
+        [{ path: 'odometer', message: `Lower than the last reading, ${fmt(prior.value, prior.unit)}.` }],
       );
     if (check.kind === 'big_jump' && !input.confirmLargeJump)
       throw new HttpError(
@@ -59,19 +70,6 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
         `That is ${fmt(check.km, 'km')} in ${check.days > 1 ? `${check.days} days` : 'one day'}, more than 1,000 km a day. Check the reading; if it is right, confirm it.`,
         [{ path: 'odometer', message: 'Unusually large distance: confirm to save.' }],
       );
-
-    // Continuous distance: from the current odometer's anchor (its fitting, or entry into service).
-    const [anchor] = await tx
-      .select()
-      .from(odometerReadings)
-      .where(and(eq(odometerReadings.bikeId, bikeId), eq(odometerReadings.reset, true)))
-      .orderBy(desc(odometerReadings.odometerKm))
-      .limit(1);
-    const unit = bike.odometerUnit;
-    const base = anchor
-      ? { km: anchor.odometerKm, value: anchor.value, unit: anchor.unit }
-      : { km: toKm(bike.inServiceOdometer, unit), value: bike.inServiceOdometer, unit };
-    const odometerKm = input.reset ? (last?.odometerKm ?? base.km) : base.km + toKm(input.odometer, unit) - toKm(base.value, base.unit);
 
     const [reading] = await tx
       .insert(odometerReadings)

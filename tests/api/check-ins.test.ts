@@ -92,6 +92,18 @@ describe('POST /api/bikes/:id/check-ins', () => {
     expect(mails.some((m) => m.to === w.people.manager.email && m.subject.includes(other.fleetNumber))).toBe(true);
   });
 
+  it('takes 50 concurrent check-ins on one bike: none refused, the highest kept, no row lost', async () => {
+    const busy = await makeBike(t.database.db, w.model.id, w.siteA.id, { inServiceDate: '2026-06-01' });
+    await as.desk.post(`/api/bikes/${busy.id}/check-ins`).send({ odometer: 100, date: '2026-06-14' });
+    const results = await Promise.all(
+      Array.from({ length: 50 }, (_, i) => as.desk.post(`/api/bikes/${busy.id}/check-ins`).send({ odometer: 110 + i })),
+    );
+    expect(results.map((r) => r.status).filter((s) => s !== 201)).toEqual([]);
+    expect(await readingsOf(busy.id)).toBe(51);
+    const bikeNow = (await as.desk.get(`/api/bikes/${busy.id}`)).body.bike;
+    expect(bikeNow.latestOdometer).toBe(159);
+  });
+
   it('refuses signed out, another site’s bike, and a malformed body', async () => {
     expect((await request(t.app).post(`/api/bikes/${bike.id}/check-ins`).send({ odometer: 1 })).status).toBe(403);
     expect((await as.desk.post(`/api/bikes/${w.bikeB.id}/check-ins`).send({ odometer: 99999 })).status).toBe(404);

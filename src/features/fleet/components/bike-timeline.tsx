@@ -56,7 +56,7 @@ export function BikeTimeline({ bikeId }: { bikeId: string }) {
                 <div>
                   <p className="font-semibold">{e.title}</p>
                   {e.detail && <p className="num text-ink-soft">{e.detail}</p>}
-                  <p className="text-sm text-ink-muted">{e.by ? `by ${e.by}` : 'by Lashline'}</p>
+                  {e.by && <p className="text-sm text-ink-muted">by {e.by}</p>}
                 </div>
               </li>
             ))}

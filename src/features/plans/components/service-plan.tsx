@@ -28,7 +28,7 @@ export function ServicePlan({ detail, canEdit }: { detail: ModelDetail; canEdit:
   return (
     <section aria-labelledby="plan-heading" className="flex flex-col gap-3">
       <div className="flex flex-wrap items-center justify-between gap-2">
-        <h2 id="plan-heading" className="text-xl font-bold">Service plan <span className="num font-normal text-ink-soft">({detail.items.length} items)</span></h2>
+        <h2 id="plan-heading" className="text-xl font-bold">Service plan <span className="num font-normal text-ink-soft">({detail.items.length} {detail.items.length === 1 ? 'item' : 'items'})</span></h2>
         {canEdit && editing.kind !== 'new' && <Button onClick={() => open({ kind: 'new' })}>Add a service item</Button>}
       </div>
       {saved && !detail.items.some((i) => i.id === saved.id) && <SavedNote bikes={saved.bikes} what={saved.what} />}

@@ -28,7 +28,12 @@ export function SignOffForm({ task, onCancel, onReload }: Props) {
   const close = useSignOff();
   const templates = detail.data?.readings ?? [];
   const grounding = templates.filter((t) => judge(t, draft.values[t.id]).state === 'grounds');
-  const setValue = (id: string, raw: string) => setDraft({ ...draft, values: { ...draft.values, [id]: raw } });
+  const setValue = (id: string, raw: string) => {
+    setDraft({ ...draft, values: { ...draft.values, [id]: raw } });
+    // A changed value is judged afresh: the old complaint about it no longer holds.
+    setErrors(({ [`readings.${id}`]: _gone, ...rest }) => rest);
+    if (close.error) close.reset();
+  };
 
   const submit = (e: FormEvent) => {
     e.preventDefault();
@@ -58,6 +63,8 @@ export function SignOffForm({ task, onCancel, onReload }: Props) {
               : `Signed off: ${task.fleetNumber}, ${task.item}. Its next due date is counted from today.`,
           );
         },
+        // The plan may have changed since the card opened (readings added or renamed): fetch what it asks for now.
+        onError: (x) => x instanceof ApiError && x.status === 400 && void detail.refetch(),
       },
     );
   };
