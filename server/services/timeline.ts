@@ -11,6 +11,8 @@ export interface TimelineEvent {
 }
 
 const iso = (d: Date) => d.toISOString();
+// A record dated some other day than it was typed in (an import, a late entry) sorts by its own date.
+const when = (date: string, created: Date) => (iso(created).startsWith(date) ? iso(created) : `${date}T12:00:00.000Z`);
 const fmtKm = (km: number) => `${Math.round(km).toLocaleString('en-GB')} km`;
 
 /** A bike's story in order, newest first: check-ins, defects, work raised and done, readings, state changes. */
@@ -30,7 +32,7 @@ export async function bikeTimeline(db: DbOrTx, bikeId: string, limit = 300): Pro
 
   const events: TimelineEvent[] = [];
   for (const r of readings)
-    events.push({ at: iso(r.createdAt), kind: r.reset ? 'odometer-replaced' : 'check-in', title: r.reset ? `New odometer fitted, reading ${r.value} ${r.unit}` : `Odometer ${r.value.toLocaleString('en-GB')} ${r.unit}`, detail: `${r.date} · ${fmtKm(r.odometerKm)} in service · ${r.source}`, by: person(r.recordedBy) });
+    events.push({ at: when(r.date, r.createdAt), kind: r.reset ? 'odometer-replaced' : 'check-in', title: r.reset ? `New odometer fitted, reading ${r.value} ${r.unit}` : `Odometer ${r.value.toLocaleString('en-GB')} ${r.unit}`, detail: `${r.date} · ${fmtKm(r.odometerKm)} in service · ${r.source}`, by: person(r.recordedBy) });
   for (const d of defs)
     events.push({ at: iso(d.reportedAt), kind: 'defect', title: `Defect reported: ${d.category}${d.safetyCritical ? ' (safety-critical)' : ''}`, detail: d.text, by: person(d.reportedBy) });
   for (const { t, item } of tasks) {
@@ -40,7 +42,7 @@ export async function bikeTimeline(db: DbOrTx, bikeId: string, limit = 300): Pro
   for (const { r, item } of records)
     events.push({ at: `${r.date}T12:00:00.000Z`, kind: 'service', title: `Service done: ${item}`, detail: `${r.date} at ${fmtKm(r.odometerKm)}${r.notes ? ` · ${r.notes}` : ''}`, by: person(r.doneBy) });
   for (const c of checks)
-    events.push({ at: iso(c.createdAt), kind: 'valve-check', title: 'Valve clearances measured', detail: `${c.date} at ${fmtKm(c.odometerKm)}`, by: person(c.checkedBy) });
+    events.push({ at: when(c.date, c.createdAt), kind: 'valve-check', title: 'Valve clearances measured', detail: `${c.date} at ${fmtKm(c.odometerKm)}`, by: person(c.checkedBy) });
   for (const a of audits) {
     const ch = (a.changes ?? {}) as { status?: [string, string]; reason?: string | [string, string] };
     if (a.action === 'status' || a.action === 'grounded')
