@@ -5,6 +5,7 @@ import type { Cell, TableSpec } from './tables';
 /** Writes whole batches of rows inside one transaction that the caller opens and closes. */
 export interface BulkTarget {
   exec(sql: string): Promise<void>;
+  rows<T>(sql: string): Promise<T[]>;
   load(t: TableSpec, rows: Cell[][]): Promise<void>;
   close(): Promise<void>;
 }
@@ -19,6 +20,7 @@ export function pgliteTarget(db: PGlite): BulkTarget {
     exec: async (sql) => {
       await db.exec(sql);
     },
+    rows: async <T>(sql: string) => (await db.query<T>(sql)).rows,
     async load(t, rows) {
       if (!rows.length) return;
       const lines = new Array<string>(rows.length);
@@ -40,6 +42,7 @@ export async function postgresTarget(url: string): Promise<BulkTarget> {
     exec: async (sql) => {
       await client.query(sql);
     },
+    rows: async <T>(sql: string) => (await client.query(sql)).rows as T[],
     async load(t, rows) {
       const cols = t.columns.map((c) => c.name).join(', ');
       const arrays = t.columns.map((c, i) => `$${i + 1}::${c.type}[]`).join(', ');

@@ -28,12 +28,14 @@ export type Batches = Record<TableKey, Cell[][]>;
 const RENTAL_OUT = [0.15, 0.15, 0.3, 0.65, 0.75, 0.8, 0.85, 0.85, 0.75, 0.6, 0.25, 0.15];
 const TRAINING_OUT = [0.35, 0.4, 0.5, 0.7, 0.8, 0.85, 0.85, 0.8, 0.8, 0.7, 0.5, 0.35];
 
-const calendar = new Map<number, { month: number; sunday: boolean; firstOfMarch: boolean }>();
-function cal(day: number) {
+interface CalendarDay { iso: string; month: number; sunday: boolean; firstOfMarch: boolean }
+// Every bike walks the same few thousand days: their dates are worked out once.
+const calendar = new Map<number, CalendarDay>();
+function cal(day: number): CalendarDay {
   let c = calendar.get(day);
   if (!c) {
     const d = new Date(day * DAY_MS);
-    c = { month: d.getUTCMonth(), sunday: d.getUTCDay() === 0, firstOfMarch: d.getUTCMonth() === 2 && d.getUTCDate() === 1 };
+    c = { iso: isoOf(day), month: d.getUTCMonth(), sunday: d.getUTCDay() === 0, firstOfMarch: d.getUTCMonth() === 2 && d.getUTCDate() === 1 };
     calendar.set(day, c);
   }
   return c;
@@ -63,7 +65,7 @@ function pickWeighted<T extends { weight?: number; share?: number }>(rng: Rng, l
   return list[list.length - 1];
 }
 
-const stamp = (day: number, hour: number) => `${isoOf(day)}T${String(hour).padStart(2, '0')}:00:00.000Z`;
+const stamp = (day: number, hour: number) => `${cal(day).iso}T${hour}:00:00.000Z`;
 
 export function fleetNumber(index: number, bikes: number) {
   return `SM-${String(index + 1).padStart(bikes >= 10_000 ? 5 : 4, '0')}`;
@@ -99,7 +101,7 @@ export function simulateBike(ctx: FleetContext, index: number, bikes: number, ou
     km[d] = Math.round(value * f * 1e6) / 1e6;
     if (d === 0 || d >= historyFrom) {
       out.odometerReadings.push([
-        ids.uuid(), bikeId, isoOf(start + d), value, unit, km[d], false, d === 0 ? 'setup' : 'check-in',
+        ids.uuid(), bikeId, cal(start + d).iso, value, unit, km[d], false, d === 0 ? 'setup' : 'check-in',
         d === 0 ? site.tech : site.desk, stamp(start + d, 17),
       ]);
     }
@@ -144,14 +146,14 @@ function serviceHistory(ctx: FleetContext, model: FleetContext['models'][number]
         const checkId = ids.uuid();
         const readings = measureValves(model.row, valves, lastCheckKm === null ? 0 : b.km[d] - lastCheckKm, rng);
         lastCheckKm = b.km[d];
-        out.valveChecks.push([checkId, b.bikeId, isoOf(day), b.km[d], b.tech, stamp(day, 15)]);
+        out.valveChecks.push([checkId, b.bikeId, c.iso, b.km[d], b.tech, stamp(day, 15)]);
         for (const r of readings) {
           out.valveReadings.push([ids.uuid(), checkId, r.cylinder, r.side, r.position, r.asFoundUm, r.asLeftUm, r.shimBeforeUm, r.shimAfterUm, 'feeler']);
         }
         const adjusted = readings.filter((r) => r.asLeftUm !== null).length;
         notes = adjusted ? `${adjusted} of ${readings.length} valves adjusted back to mid-spec.` : 'All valves within spec.';
       }
-      out.serviceRecords.push([recordId, b.bikeId, it.id, isoOf(day), b.km[d], b.tech, notes, stamp(day, 15)]);
+      out.serviceRecords.push([recordId, b.bikeId, it.id, c.iso, b.km[d], b.tech, notes, stamp(day, 15)]);
     }
   }
 }

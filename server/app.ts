@@ -23,6 +23,8 @@ import { valveRoutes } from './routes/valves';
 import { planRoutes } from './routes/plans';
 import { settingsRoutes } from './routes/settings';
 import { importRoutes } from './routes/imports';
+import { recordRoutes } from './routes/records';
+import { backupRoutes } from './routes/backup';
 import { attachmentRoutes } from './routes/attachments';
 import type { BlobStore } from './storage/types';
 import { createMemoryBlobStore } from './storage/memory';
@@ -141,6 +143,8 @@ export function createApp(deps: AppDeps): Express {
   api.use('/', planRoutes(ctx));
   api.use('/', settingsRoutes(ctx));
   api.use('/', importRoutes(ctx));
+  api.use('/', recordRoutes(ctx));
+  api.use('/', backupRoutes(ctx));
   api.use('/', attachmentRoutes(ctx, deps.blobStore ?? createMemoryBlobStore(), { maxBytes: deps.uploadMaxBytes }));
   api.use(apiNotFound);
 

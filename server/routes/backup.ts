@@ -27,7 +27,9 @@ export function backupRoutes(ctx: AppContext) {
   });
 
   r.post('/admin/restore', requireRole('admin'), express.raw({ type: () => true, limit: RESTORE_MAX_BYTES }), async (req, res) => {
-    if (!Buffer.isBuffer(req.body) || !req.body.length) throw badRequest('Send the backup file as the request body.', [{ path: 'file', message: 'No file.' }]);
+    // A JSON body would already have been read by the API's JSON parser: the file travels as bytes.
+    if (!Buffer.isBuffer(req.body) || !req.body.length)
+      throw badRequest('Send the backup file itself as the request body, as application/octet-stream.', [{ path: 'file', message: 'No file.' }]);
     const report = await restore(database, req.body, currentUser(req).id);
     // Every session was cleared with the data; this one must not be written back at the end of the response.
     await new Promise<void>((done) => req.session.destroy(() => done()));

@@ -67,7 +67,7 @@ export function bikeRoutes(ctx: AppContext) {
     async (req, res) => {
       const user = currentUser(req);
       const { id } = req.valid.params as { id: string };
-      const { reading, grounded } = await recordCheckIn(db, user, id, req.valid.body as CheckIn, ctx.now());
+      const { reading, grounded, defectId } = await recordCheckIn(db, user, id, req.valid.body as CheckIn, ctx.now());
       const bike = (await getBike(db, user.siteIds, id))!;
       const due = await listDue(db, [bike.site.id], { bikeId: id, all: true }, ctx.now());
       res.status(201).json({
@@ -75,6 +75,7 @@ export function bikeRoutes(ctx: AppContext) {
         bike,
         due,
         grounded,
+        defectId,
         ride: rideVerdict(bike, due),
       });
     },

@@ -78,11 +78,13 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
     await audit(tx, { userId: user.id, action: input.reset ? 'odometer-replaced' : 'check-in', entity: 'bike', entityId: bikeId, changes: { odometer: input.odometer, unit, date } });
 
     let grounded = false;
+    let defectId: string | null = null;
     if (input.defect) {
       const [d] = await tx
         .insert(defects)
         .values({ bikeId, category: input.defect.category, text: input.defect.text, safetyCritical: input.defect.safetyCritical, reportedBy: user.id, reportedAt: now })
         .returning();
+      defectId = d.id;
       await audit(tx, { userId: user.id, action: 'defect', entity: 'bike', entityId: bikeId, changes: { defectId: d.id, ...input.defect } });
       if (input.defect.safetyCritical && bike.status !== 'out_of_service') {
         const reason = `Safety defect reported at check-in (${input.defect.category}): ${input.defect.text}`;
@@ -93,7 +95,7 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
       }
     }
     const { report } = await recomputeBike(tx, bikeId, now);
-    return { reading, grounded, report };
+    return { reading, grounded, defectId, report };
   });
 }
 

@@ -130,6 +130,8 @@ export const CheckInResultSchema = z.object({
   bike: BikeSummarySchema,
   due: z.array(DueItemSchema),
   grounded: z.boolean(),
+  /** The defect reported with the check-in, so photos can be attached to it. */
+  defectId: IdSchema.nullable(),
   ride: RideVerdictSchema,
 });
 export type BikeDetail = z.infer<typeof BikeDetailSchema>;

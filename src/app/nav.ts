@@ -15,12 +15,15 @@ const NAV: Record<Role, NavItem[]> = {
     { to: '/tasks', label: 'My tasks' },
     { to: '/check-in', label: 'Check-in' },
     { to: '/fleet', label: 'Fleet' },
+    { to: '/stock', label: 'Shim stock' },
   ],
   manager: [
     { to: '/this-week', label: 'This week' },
     { to: '/fleet', label: 'Fleet' },
     { to: '/tasks', label: 'Tasks' },
     { to: '/check-in', label: 'Check-in' },
+    { to: '/valves', label: 'Valve trends' },
+    { to: '/stock', label: 'Shim stock' },
     { to: '/plans', label: 'Models and plans' },
   ],
   admin: [

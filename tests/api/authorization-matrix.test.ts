@@ -74,6 +74,10 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
   'DELETE /api/attachments/:id': ['desk', 'technician', 'manager'],
   'POST /api/import/:kind/preview': ['manager', 'admin'],
   'POST /api/import/:kind': ['manager', 'admin'],
+  'GET /api/bikes/:id/service-record': ALL,
+  'GET /api/bikes/:id/history.csv': ALL,
+  'GET /api/admin/backup': ['admin'],
+  'POST /api/admin/restore': ['admin'],
 };
 
 let t: TestContext;

@@ -5,16 +5,17 @@ import { ErrorPanel, Loading } from '../../../components/ui/states';
 import { BikeStatusBadge } from '../../../components/ui/status-badge';
 import { checkInQueries, type CheckInResult } from '../api';
 import { CheckInForm } from './check-in-form';
-import { CheckInVerdict } from './check-in-verdict';
+import { CheckInVerdict, type DefectExtra } from './check-in-verdict';
 
 interface Props {
   bikeId: string;
   result: { data: CheckInResult; defect: boolean } | null;
   onDone: (r: CheckInResult, defect: boolean) => void;
+  defectExtra?: DefectExtra;
   onBack: () => void;
 }
 
-export function CheckInBike({ bikeId, result, onDone, onBack }: Props) {
+export function CheckInBike({ bikeId, result, onDone, onBack, defectExtra }: Props) {
   const q = useQuery(checkInQueries.bike(bikeId));
   const back = (
     <Button kind="secondary" className="min-h-14 self-start text-lg" onClick={onBack}>
@@ -30,7 +31,7 @@ export function CheckInBike({ bikeId, result, onDone, onBack }: Props) {
       </>
     );
   const { bike, ride } = q.data;
-  if (result) return <CheckInVerdict result={result.data} defect={result.defect} onNext={onBack} />;
+  if (result) return <CheckInVerdict result={result.data} defect={result.defect} onNext={onBack} defectExtra={defectExtra} />;
   return (
     <>
       {back}

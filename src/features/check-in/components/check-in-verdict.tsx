@@ -1,10 +1,13 @@
+import type { ReactNode } from 'react';
 import { Button } from '../../../components/ui/button';
 import { RideVerdictPanel } from '../../../components/ui/ride-verdict';
 import { formatDate, formatOdometer } from '../../../lib/format';
 import type { CheckInResult } from '../api';
 import { NextDue } from './next-due';
 
-export function CheckInVerdict({ result, defect, onNext }: { result: CheckInResult; defect: boolean; onNext: () => void }) {
+export type DefectExtra = (bikeId: string, defectId: string) => ReactNode;
+
+export function CheckInVerdict({ result, defect, onNext, defectExtra }: { result: CheckInResult; defect: boolean; onNext: () => void; defectExtra?: DefectExtra }) {
   const { reading, bike } = result;
   return (
     <div className="flex flex-col gap-5">
@@ -22,6 +25,7 @@ export function CheckInVerdict({ result, defect, onNext }: { result: CheckInResu
           ■ The defect is recorded and the bike is now grounded. The manager has been told by e-mail.
         </p>
       )}
+      {result.defectId && defectExtra?.(bike.id, result.defectId)}
       <section aria-labelledby="next-due">
         <h2 id="next-due" className="mb-2 text-xl font-bold">Next service work</h2>
         <NextDue bikeId={bike.id} items={result.due} />

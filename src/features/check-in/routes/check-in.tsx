@@ -5,9 +5,10 @@ import { Empty, ErrorPanel, Loading, PageHeader, SafetyNote } from '../../../com
 import { checkInQueries, type CheckInResult } from '../api';
 import { BikeFinder } from '../components/bike-finder';
 import { CheckInBike } from '../components/check-in-bike';
+import type { DefectExtra } from '../components/check-in-verdict';
 
 /** The counter's screen: find the bike, type the odometer, see at once whether it may go out. */
-export function CheckInRoute() {
+export function CheckInRoute({ defectExtra }: { defectExtra?: DefectExtra } = {}) {
   const [params, setParams] = useSearchParams();
   // The chosen bike lives in the address, so a reload comes back to the same bike and its draft.
   const bikeId = params.get('bike');
@@ -23,7 +24,7 @@ export function CheckInRoute() {
     <div className="mx-auto flex max-w-4xl flex-col gap-5">
       <PageHeader title="Check-in" />
       {bikeId ? (
-        <CheckInBike bikeId={bikeId} result={result?.data.bike.id === bikeId ? result : null} onDone={(data, defect) => { setResult({ data, defect }); window.scrollTo(0, 0); }} onBack={() => pick(null)} />
+        <CheckInBike bikeId={bikeId} result={result?.data.bike.id === bikeId ? result : null} onDone={(data, defect) => { setResult({ data, defect }); window.scrollTo(0, 0); }} onBack={() => pick(null)} defectExtra={defectExtra} />
       ) : bikes.isPending ? (
         <Loading what="the bikes at your sites" />
       ) : bikes.error ? (

@@ -1,3 +1,4 @@
+import type { ReactNode } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
 import { DataTable, type Columns } from '../../../components/ui/data-table';
@@ -31,7 +32,14 @@ const readingColumns: Columns<OdometerReading> = [
   { id: 'by', accessorFn: (r) => r.recordedBy ?? '', header: 'Recorded by' },
 ];
 
-export function BikePageRoute() {
+export interface BikePanels {
+  /** Panels other features add to the bike's story (valve trends, photos), composed in src/app. */
+  panels?: { key: string; title: string; render: (bikeId: string) => ReactNode }[];
+  /** Links to more about the bike, e.g. its printable service record. */
+  links?: { to: (bikeId: string) => string; label: string }[];
+}
+
+export function BikePageRoute({ panels = [], links = [] }: BikePanels) {
   const { id = '' } = useParams();
   const me = useMe();
   const q = useQuery(bikeQueries.detail(id));
@@ -62,6 +70,20 @@ export function BikePageRoute() {
       </section>
       {canChangeStatus(me) && <StatusForm bike={bike} />}
       <WhatIsDue bike={bike} due={due} />
+      {links.length > 0 && (
+        <nav aria-label="More about this bike" className="flex flex-wrap gap-3">
+          {links.map((l) => (
+            <Link key={l.label} to={l.to(bike.id)} className="inline-flex min-h-tap items-center rounded-card border-2 border-ink-line bg-paper-raised px-4 font-semibold text-accent hover:border-accent">
+              {l.label}
+            </Link>
+          ))}
+        </nav>
+      )}
+      {panels.map((p) => (
+        <section key={p.key} aria-label={p.title}>
+          {p.render(bike.id)}
+        </section>
+      ))}
       <BikeTimeline bikeId={bike.id} />
       <section aria-labelledby="history">
         <h2 id="history" className="mb-2 text-xl font-bold">Odometer history</h2>

@@ -5,6 +5,7 @@ import type { Adjuster, EntryReading, ValveEntry } from '../card-state';
 import { fmtShim, shimMarkingText, type ClearanceUnit } from '../clearance-format';
 import { ClearanceField } from './clearance-field';
 import { ShimAdvice } from './shim-advice';
+import type { PlannedShim } from '../engine-plan';
 
 interface Props {
   slot: ValveSlotView;
@@ -14,13 +15,14 @@ interface Props {
   sizesMm: number[];
   unit: ClearanceUnit;
   onChange: (e: ValveEntry) => void;
+  planned?: PlannedShim;
   disabled?: boolean;
 }
 
 const shimHint = (mm: number | null, fallback: string) => (mm == null ? fallback : `= ${fmtShim(mm)}`);
 
 /** The shim (read off, advised, fitted) or the screw, then the clearance as left. */
-export function AdjustSection({ slot, adjuster, entry, reading, sizesMm, unit, onChange, disabled }: Props) {
+export function AdjustSection({ slot, adjuster, entry, reading, sizesMm, unit, onChange, planned, disabled }: Props) {
   const set = (patch: Partial<ValveEntry>) => onChange({ ...entry, ...patch });
   return (
     <div className="flex flex-col gap-3">
@@ -38,7 +40,7 @@ export function AdjustSection({ slot, adjuster, entry, reading, sizesMm, unit, o
               (slot.currentShimMm != null ? ` · Last recorded: ${fmtShim(slot.currentShimMm)}` : '')}
             className="num text-reading [&_label]:text-lg"
           />
-          <ShimAdvice slot={slot} reading={reading} sizesMm={sizesMm} unit={unit} disabled={disabled} onFit={(mm) => set({ fittedText: shimMarkingText(mm) })} />
+          <ShimAdvice slot={slot} reading={reading} sizesMm={sizesMm} unit={unit} planned={planned} disabled={disabled} onFit={(mm) => set({ fittedText: shimMarkingText(mm) })} />
           <TextField
             label="Shim fitted (empty if unchanged)"
             inputMode="decimal"

@@ -2,7 +2,7 @@ import { SelectField } from '../../../components/ui/field';
 import { Segmented } from '../../../components/ui/segmented';
 import type { Blade } from '../../../../shared/domain/feeler';
 import { pickSlides, type EntryReading, type ValveEntry } from '../card-state';
-import { clearanceText, fmtIn, fmtMm, type ClearanceUnit } from '../clearance-format';
+import { clearanceText, fmtMm, type ClearanceUnit } from '../clearance-format';
 import { ClearanceField } from './clearance-field';
 
 interface Props {
@@ -15,15 +15,16 @@ interface Props {
   disabled?: boolean;
 }
 
-const bladeText = (b: Blade) => (b.inch === undefined ? `${b.label} (${fmtIn(b.mm)} in)` : `${b.label} (${fmtMm(b.mm)} mm)`);
-
-/** A blade picked with another gauge set stays selectable, so switching sets never loses a reading. */
+/**
+ * Blades as stamped (the reading below shows both units). A blade picked with another gauge
+ * set stays selectable, so switching sets never loses a reading.
+ */
 function bladeOptions(series: Blade[], current: string) {
   const known = series.some((b) => String(b.mm) === current);
   return (
     <>
       {series.map((b) => (
-        <option key={b.mm} value={String(b.mm)}>{bladeText(b)}</option>
+        <option key={b.mm} value={String(b.mm)}>{b.label}</option>
       ))}
       {current && current !== 'none' && !known && <option value={current}>{fmtMm(Number(current))} mm (other gauge set)</option>}
     </>

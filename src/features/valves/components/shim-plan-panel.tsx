@@ -1,44 +1,28 @@
 import { useMemo } from 'react';
 import { Button } from '../../../components/ui/button';
 import { DataTable, type Columns } from '../../../components/ui/data-table';
-import { planShims, type ShimPlan, type SizeCount, type ValvePlan } from '../../../../shared/domain/shim-plan';
+import type { ShimPlan, SizeCount, ValvePlan } from '../../../../shared/domain/shim-plan';
 import type { ValveCard } from '../../../../shared/schemas/valves';
 import { planValveOf, type EntryReading } from '../card-state';
+import { sourceText } from '../engine-plan';
 import { clearanceText, fmtShim, type ClearanceUnit } from '../clearance-format';
 
 interface Props {
   card: ValveCard;
   readings: Map<string, EntryReading>;
+  result: ShimPlan | string | null;
   unit: ClearanceUnit;
   onUsePlan: (plan: ShimPlan) => void;
   disabled?: boolean;
 }
 
 const ACTION: Record<ValvePlan['action'], string> = { keep: 'Keep', replace: 'Change', 'none-fits': 'No size fits' };
-
-function sourceText(p: ValvePlan, labels: Map<string, string>) {
-  if (p.action === 'keep') return 'stays in';
-  if (p.action === 'none-fits') return 'order or have ground; the seat may need work';
-  if (p.source === 'engine') return `from ${labels.get(p.fromValveId ?? '') ?? 'another valve'}`;
-  if (p.source === 'stock') return `shelf, ${p.condition === 'used' ? 'used' : 'new'}`;
-  return 'order';
-}
-
 const counts = (list: SizeCount[]) => list.map((s) => `${s.count} × ${fmtShim(s.sizeMm)}${s.condition ? ` (${s.condition})` : ''}`).join(', ');
 
 /** The whole engine at once: a removed shim often fits another valve, which saves buying one. */
-export function ShimPlanPanel({ card, readings, unit, onUsePlan, disabled }: Props) {
+export function ShimPlanPanel({ card, readings, result, unit, onUsePlan, disabled }: Props) {
   const labels = useMemo(() => new Map(card.valves.map((v) => [v.valveId, v.label])), [card.valves]);
   const waiting = card.valves.filter((s) => !planValveOf(s, readings.get(s.valveId)!));
-  const result = useMemo(() => {
-    const valves = card.valves.flatMap((s) => planValveOf(s, readings.get(s.valveId)!) ?? []);
-    if (!valves.length) return null;
-    try {
-      return planShims({ valves, stock: card.stock.map((s) => ({ sizeMm: s.sizeMm, count: s.count, condition: s.condition })), sizesMm: card.shimSizesMm });
-    } catch (e) {
-      return (e as Error).message;
-    }
-  }, [card, readings]);
   const columns: Columns<ValvePlan> = [
     { id: 'valve', accessorFn: (p) => labels.get(p.valveId) ?? p.valveId, header: 'Valve', cell: (c) => <span className="font-semibold">{labels.get(c.row.original.valveId)}</span> },
     { id: 'action', accessorFn: (p) => ACTION[p.action], header: 'Action' },

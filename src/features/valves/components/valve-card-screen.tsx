@@ -11,6 +11,7 @@ import { entryProblems, readEntry, toReadingInput, type ValveEntry } from '../ca
 import { shimMarkingText } from '../clearance-format';
 import { signOffErrors, type SignOffErrors } from '../sign-off-errors';
 import { useCardDraft } from '../use-card-draft';
+import { engineShimPlan, plannedFor } from '../engine-plan';
 import { CardHeader } from './card-header';
 import { CardToolbar } from './card-toolbar';
 import { Cautions } from './cautions';
@@ -35,6 +36,8 @@ export function ValveCardScreen({ card }: { card: ValveCard }) {
     () => new Map(draft.entries.map((e) => [e.valveId, readEntry(e, card.valves.find((v) => v.valveId === e.valveId)!, card.adjuster)])),
     [draft.entries, card.valves, card.adjuster],
   );
+  const labels = useMemo(() => new Map(card.valves.map((v) => [v.valveId, v.label])), [card.valves]);
+  const plan = useMemo(() => engineShimPlan(card, readings), [card, readings]);
   if (done) return <SignedOff task={done} />;
   const open = card.task.status === 'open' || card.task.status === 'in_progress';
   const setEntry = (next: ValveEntry) => update((d) => ({ ...d, entries: d.entries.map((e) => (e.valveId === next.valveId ? next : e)) }));
@@ -95,6 +98,7 @@ export function ValveCardScreen({ card }: { card: ValveCard }) {
             sizesMm={card.shimSizesMm}
             unit={draft.unit}
             onChange={setEntry}
+            planned={plannedFor(plan, slot.valveId, labels)}
             problems={problems(slot.valveId)}
             disabled={!open || !canWork}
           />
@@ -104,6 +108,7 @@ export function ValveCardScreen({ card }: { card: ValveCard }) {
         <ShimPlanPanel
           card={card}
           readings={readings}
+          result={plan}
           unit={draft.unit}
           disabled={!open || !canWork}
           onUsePlan={(plan) =>

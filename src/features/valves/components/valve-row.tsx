@@ -5,6 +5,7 @@ import { clearanceText, specText, type ClearanceUnit } from '../clearance-format
 import { AsFoundEntry } from './as-found-entry';
 import { AdjustSection } from './adjust-section';
 import { SpecBadge } from './spec-badge';
+import type { PlannedShim } from '../engine-plan';
 
 interface Props {
   slot: ValveSlotView;
@@ -15,12 +16,13 @@ interface Props {
   sizesMm: number[];
   unit: ClearanceUnit;
   onChange: (e: ValveEntry) => void;
+  planned?: PlannedShim;
   /** Problems found on this valve by the last sign-off attempt, here or on the server. */
   problems: string[];
   disabled?: boolean;
 }
 
-export function ValveRow({ slot, adjuster, entry, reading, series, sizesMm, unit, onChange, problems, disabled }: Props) {
+export function ValveRow({ slot, adjuster, entry, reading, series, sizesMm, unit, onChange, planned, problems, disabled }: Props) {
   const headingId = `valve-${slot.valveId}`;
   return (
     <section
@@ -46,7 +48,7 @@ export function ValveRow({ slot, adjuster, entry, reading, series, sizesMm, unit
       )}
       <div className="grid gap-6 lg:grid-cols-2">
         <AsFoundEntry label={slot.label} entry={entry} reading={reading} series={series} unit={unit} onChange={onChange} disabled={disabled} />
-        <AdjustSection slot={slot} adjuster={adjuster} entry={entry} reading={reading} sizesMm={sizesMm} unit={unit} onChange={onChange} disabled={disabled} />
+        <AdjustSection slot={slot} adjuster={adjuster} entry={entry} reading={reading} sizesMm={sizesMm} unit={unit} onChange={onChange} planned={planned} disabled={disabled} />
       </div>
     </section>
   );

@@ -1,0 +1,17 @@
+import { startWorker } from './worker-client';
+import { dataDirFor } from './args';
+const w = await startWorker({ dataDir: dataDirFor(Number(process.argv[2] ?? 200)) });
+console.log('open', w.openMs, w.startMemory);
+await w.call('recordStart');
+console.log('scan1', await w.call('scan'));
+const st = await w.call<{sql:string;ms:number;rows:number}[]>('recordStop');
+console.log('stmts', st.length, 'sql ms', st.reduce((s,x)=>s+x.ms,0).toFixed(0));
+console.log(st.sort((a,b)=>b.ms-a.ms).slice(0,6).map(s=>[s.ms.toFixed(0), s.rows, s.sql.slice(0,150)]));
+console.log('scan2', await w.call('scan'));
+console.log('parts', await w.call('scanParts'));
+console.log('floor', await w.call('floor'));
+console.log('floor', await w.call('floor'));
+const ld = await w.call<{times:number[];items:number}>('listDue', { maxRuns: 10 });
+console.log('listDue', ld.items, ld.times.map(t=>t.toFixed(0)).join(' '));
+console.log(await w.call('memory'));
+await w.stop();

@@ -1,0 +1,74 @@
+import type { Rng } from '../server/demo/prng';
+import type { ModelRow } from '../server/demo/scenario';
+
+/** Valve clearances that close up with distance (seat wear), read and put back to mid-spec when out of it. */
+
+interface Valve {
+  cylinder: number;
+  side: 'intake' | 'exhaust';
+  position: number;
+  clearance: number;
+  /** µm per 1000 km; exhaust valves close up faster (common practice). */
+  closing: number;
+  shim: number | null;
+}
+
+export interface ValveReadingCells {
+  cylinder: number;
+  side: 'intake' | 'exhaust';
+  position: number;
+  asFoundUm: number;
+  asLeftUm: number | null;
+  shimBeforeUm: number | null;
+  shimAfterUm: number | null;
+}
+
+const spec = (m: ModelRow, side: 'intake' | 'exhaust'): [number, number] =>
+  side === 'intake' ? [m.intakeMinUm, m.intakeMaxUm] : [m.exhaustMinUm, m.exhaustMaxUm];
+const round10 = (um: number) => Math.round(um / 10) * 10;
+
+export function makeValves(m: ModelRow, rng: Rng): Valve[] {
+  const valves: Valve[] = [];
+  for (let cylinder = 1; cylinder <= m.cylinders; cylinder++) {
+    for (const side of ['intake', 'exhaust'] as const) {
+      const count = side === 'intake' ? m.intakeValvesPerCylinder : m.exhaustValvesPerCylinder;
+      for (let position = 1; position <= count; position++) {
+        const [lo, hi] = spec(m, side);
+        valves.push({
+          cylinder, side, position,
+          clearance: lo + (hi - lo) * rng.range(0.5, 0.9),
+          closing: side === 'exhaust' ? rng.range(0.2, 2) : rng.range(-0.3, 0.8),
+          shim: m.adjuster === 'shim-under-bucket' ? 2400 + 50 * rng.int(0, 10) : null,
+        });
+      }
+    }
+  }
+  return valves;
+}
+
+function nearestShim(m: ModelRow, um: number) {
+  const step = m.shimStepUm ?? 50;
+  const s = Math.round(um / step) * step;
+  return Math.min(m.shimMaxUm ?? 3500, Math.max(m.shimMinUm ?? 1200, s));
+}
+
+export function measureValves(m: ModelRow, valves: Valve[], kmSinceLast: number, rng: Rng): ValveReadingCells[] {
+  return valves.map((v) => {
+    v.clearance -= (v.closing * kmSinceLast) / 1000;
+    const asFoundUm = Math.max(0, round10(v.clearance + rng.range(-6, 6)));
+    const [lo, hi] = spec(m, v.side);
+    const r: ValveReadingCells = { cylinder: v.cylinder, side: v.side, position: v.position, asFoundUm, asLeftUm: null, shimBeforeUm: null, shimAfterUm: null };
+    if (asFoundUm >= lo && asFoundUm <= hi) return r;
+    const target = (lo + hi) / 2;
+    if (v.shim !== null) {
+      // New shim = old shim + measured − target (common practice for shim-under-bucket valves).
+      const next = nearestShim(m, v.shim + asFoundUm - target);
+      Object.assign(r, { shimBeforeUm: v.shim, shimAfterUm: next, asLeftUm: asFoundUm + v.shim - next });
+      v.shim = next;
+    } else {
+      r.asLeftUm = round10(target);
+    }
+    v.clearance = r.asLeftUm!;
+    return r;
+  });
+}
