@@ -75,6 +75,8 @@ export interface ClearanceTrend {
  */
 export const TIGHTENING_THRESHOLD_MM_PER_1000KM = 0.0005;
 export const MIN_CHECKS_FOR_TREND = 3;
+/** What a feeler-gauge reading can tell apart (common practice: about 0.001 in). */
+export const FEELER_RESOLUTION_MM = 0.025;
 
 /**
  * A reshimmed valve keeps wearing, so the trend follows the cumulative closure
@@ -107,7 +109,12 @@ export function clearanceTrend(points: readonly ClearanceCheck[], options: Trend
   const kmAtSpecMin =
     margin <= 0 ? last.odometerKm : tightening ? Math.round(last.odometerKm + (fromMicrons(margin) / rate) * 1000) : null;
   const next = options.nextCheckKm ?? null;
-  const warning = kmAtSpecMin !== null && (kmAtSpecMin <= last.odometerKm || (next !== null && kmAtSpecMin < next));
+  // A projected crossing only counts when the valve has closed by more than a feeler reading can
+  // resolve (about 0.025 mm, common practice); smaller drifts are reading noise. At or under the
+  // minimum already always counts.
+  const closed = cumulative[cumulative.length - 1].closureMm - cumulative[0].closureMm;
+  const meaningful = closed >= FEELER_RESOLUTION_MM || margin <= 0;
+  const warning = meaningful && kmAtSpecMin !== null && (kmAtSpecMin <= last.odometerKm || (next !== null && kmAtSpecMin < next));
   return {
     ...none, closureMmPer1000Km: rate, interceptMm: robust.intercept, leastSquaresMmPer1000Km: ls.slope,
     leastSquaresInterceptMm: ls.intercept, kmAtSpecMin, tightening, warning,
