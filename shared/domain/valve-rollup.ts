@@ -33,7 +33,7 @@ export function median(xs: readonly number[]): number | null {
 
 /**
  * Per model and valve position: how many bikes close up and how fast. A position is flagged when most
- * of at least two bikes tighten and, at the median rate, the valve would use up half its spec range
+ * of at least two bikes tighten and, at the median rate, the valve would use up a quarter of its spec range
  * within one check interval: then the checks should come sooner.
  */
 export function rollUp(rates: readonly BikeGroupRate[]): RollupRow[] {
@@ -48,13 +48,14 @@ export function rollUp(rates: readonly BikeGroupRate[]): RollupRow[] {
     const tightening = withTrend.filter((r) => r.rateMmPer1000Km! > TIGHTENING_THRESHOLD_MM_PER_1000KM);
     const med = median(withTrend.map((r) => r.rateMmPer1000Km!));
     const { specMinMm, specMaxMm, intervalKm } = g[0];
-    const halfRange = (specMaxMm - specMinMm) / 2;
+    // A quarter of the spec range closed within one interval leaves too little margin for the next.
+    const quarterRange = (specMaxMm - specMinMm) / 4;
     const closesPerInterval = med !== null && intervalKm ? (med * intervalKm) / 1000 : null;
-    const flagged = withTrend.length >= 2 && tightening.length * 2 > withTrend.length && closesPerInterval !== null && closesPerInterval >= halfRange;
+    const flagged = withTrend.length >= 2 && tightening.length * 2 > withTrend.length && closesPerInterval !== null && closesPerInterval >= quarterRange;
     let suggestion: string | null = null;
     if (flagged && med) {
-      const suggested = Math.max(1000, Math.floor((halfRange / med) * 1000 / 1000) * 1000);
-      suggestion = `${g[0].position} valves close about ${closesPerInterval!.toFixed(3)} mm per ${intervalKm!.toLocaleString('en-GB')} km interval, more than half the spec range. Bring the valve checks forward, e.g. every ${suggested.toLocaleString('en-GB')} km, and check the maker’s service manual.`;
+      const suggested = Math.max(1000, Math.floor(quarterRange / med) * 1000);
+      suggestion = `${g[0].position} valves close about ${closesPerInterval!.toFixed(3)} mm per ${intervalKm!.toLocaleString('en-GB')} km interval, more than a quarter of the spec range. Bring the valve checks forward, e.g. every ${suggested.toLocaleString('en-GB')} km, and check the maker’s service manual.`;
     }
     out.push({ modelId: g[0].modelId, modelName: g[0].modelName, position: g[0].position, bikes: withTrend.length, tightening: tightening.length, medianMmPer1000Km: med, flagged, suggestion });
   }

@@ -33,7 +33,7 @@ const router = createBrowserRouter([
       { path: '/fleet/new', lazy: () => import('../features/fleet/routes/bike-new').then((m) => ({ Component: m.BikeNewRoute })) },
       { path: '/fleet/:id', lazy: () => import('./routes/bike').then((m) => ({ Component: m.BikeRoute })) },
       { path: '/check-in', lazy: () => import('./routes/check-in').then((m) => ({ Component: m.CheckInWithPhotos })) },
-      { path: '/this-week', lazy: () => import('../features/due/routes/this-week').then((m) => ({ Component: m.ThisWeekRoute })) },
+      { path: '/this-week', lazy: () => import('./routes/this-week').then((m) => ({ Component: m.ThisWeekBoard })) },
       { path: '/tasks', lazy: () => import('../features/tasks/routes/tasks').then((m) => ({ Component: m.TasksRoute })) },
       { path: '/admin/mail', lazy: () => import('../features/mail/routes/mail').then((m) => ({ Component: m.MailRoute })) },
       { path: '/admin/mail/:id', lazy: () => import('../features/mail/routes/mail').then((m) => ({ Component: m.MailRoute })) },

@@ -40,7 +40,7 @@ function withQuery(url: string, q?: Query) {
   return s ? `${url}?${s}` : url;
 }
 
-async function send(method: string, url: string, body?: unknown, retried = false): Promise<unknown> {
+async function send(method: string, url: string, body?: unknown, retried = false, keepalive = false): Promise<unknown> {
   const headers: Record<string, string> = { accept: 'application/json' };
   if (method !== 'GET') headers['x-csrf-token'] = await token();
   if (body !== undefined && !(body instanceof FormData)) headers['content-type'] = 'application/json';
@@ -51,6 +51,8 @@ async function send(method: string, url: string, body?: unknown, retried = false
       headers,
       credentials: 'same-origin',
       body: body === undefined ? undefined : body instanceof FormData ? body : JSON.stringify(body),
+      // Lets a save started as the screen locks finish.
+      keepalive,
     });
   } catch {
     throw new ApiError(0, 'network', 'Lashline cannot be reached. Check the connection; what you typed is kept.');
@@ -62,7 +64,7 @@ async function send(method: string, url: string, body?: unknown, retried = false
     // The token belongs to a session that has changed (signed in elsewhere, expired): get a new one once.
     if (err?.code === 'csrf_failed' && !retried) {
       csrfToken = null;
-      return send(method, url, body, true);
+      return send(method, url, body, true, keepalive);
     }
     throw new ApiError(res.status, err?.code ?? 'internal', err?.message ?? `The server answered ${res.status}.`, err?.details);
   }
@@ -77,6 +79,10 @@ export const api = {
   },
   patch: async <S extends ZodType>(url: string, body: unknown, schema?: S): Promise<z.infer<S>> => {
     const data = await send('PATCH', url, body);
+    return schema ? schema.parse(data) : (data as z.infer<S>);
+  },
+  put: async <S extends ZodType>(url: string, body: unknown, schema?: S, opts: { keepalive?: boolean } = {}): Promise<z.infer<S>> => {
+    const data = await send('PUT', url, body, false, opts.keepalive);
     return schema ? schema.parse(data) : (data as z.infer<S>);
   },
   delete: (url: string) => send('DELETE', url),

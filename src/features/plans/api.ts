@@ -1,6 +1,5 @@
 import { queryOptions, useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import { api } from '../../lib/api-client';
-import { apiPut } from '../../lib/api-put';
 import type { ModelUpsert, ServiceItemUpsert } from '../../../shared/schemas/plans';
 import { ItemSavedSchema, ModelDetailSchema, ModelSavedSchema, type ModelDetail } from './schemas';
 
@@ -30,7 +29,7 @@ export function useCreateModel() {
 export function useUpdateModel(id: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (m: ModelUpsert) => apiPut(`/api/models/${id}`, m, ModelSavedSchema),
+    mutationFn: (m: ModelUpsert) => api.put(`/api/models/${id}`, m, ModelSavedSchema),
     onSuccess: (d) => settle(qc, d),
   });
 }
@@ -39,7 +38,7 @@ export function useSaveItem(modelId: string, itemId: string | null) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (i: ServiceItemUpsert) =>
-      itemId ? apiPut(`/api/models/${modelId}/items/${itemId}`, i, ItemSavedSchema) : api.post(`/api/models/${modelId}/items`, i, ItemSavedSchema),
+      itemId ? api.put(`/api/models/${modelId}/items/${itemId}`, i, ItemSavedSchema) : api.post(`/api/models/${modelId}/items`, i, ItemSavedSchema),
     onSuccess: (d) => settle(qc, d),
   });
 }

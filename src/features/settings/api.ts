@@ -1,11 +1,11 @@
+import { api } from '../../lib/api-client';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { apiPut } from '../../lib/api-put';
 import { settingsQueries, SettingsResultSchema, type SettingsForm } from '../../lib/settings-queries';
 
 export function useSaveSettings() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (s: SettingsForm) => apiPut('/api/admin/settings', s, SettingsResultSchema),
+    mutationFn: (s: SettingsForm) => api.put('/api/admin/settings', s, SettingsResultSchema),
     onSuccess: (d) => qc.setQueryData(settingsQueries.current().queryKey, d),
   });
 }

@@ -2,7 +2,6 @@ import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query
 import { z } from 'zod';
 import { api } from '../../lib/api-client';
 import { ShimStockLineSchema, type StockAdjustSchema, type StockMinSchema } from '../../../shared/schemas/valves';
-import { putJson } from './put-json';
 
 export const StockListSchema = z.object({ items: z.array(ShimStockLineSchema) });
 // The reorder list has no shared schema yet; this mirrors what the server sends.
@@ -36,4 +35,4 @@ function useStockChange<V extends { siteId: string }>(fn: (v: V) => Promise<z.in
 export const useAdjustStock = () => useStockChange((b: StockAdjust) => api.post('/api/stock/shims/adjust', b, StockListSchema));
 
 export const useSetMinimum = () =>
-  useStockChange(async (b: StockMin) => StockListSchema.parse(await putJson('/api/stock/shims/minimum', b)));
+  useStockChange(async (b: StockMin) => api.put('/api/stock/shims/minimum', b, StockListSchema));

@@ -5,7 +5,6 @@ import { BikeDetailSchema } from '../../../shared/schemas/bikes';
 import { TaskSchema } from '../../../shared/schemas/tasks';
 import { BikeValvesSchema, RollupSchema, ValveCardSchema, type CloseValveTask } from '../../../shared/schemas/valves';
 import { IdSchema } from '../../../shared/schemas/common';
-import { putJson } from './put-json';
 
 // The warnings list has no shared schema yet; this mirrors what the server sends.
 export const ValveWarningListSchema = z.object({
@@ -52,4 +51,4 @@ export interface ServerDraft {
 }
 
 export const saveValveDraft = (taskId: string, draft: ServerDraft, keepalive = false) =>
-  putJson(`/api/tasks/${taskId}/draft`, draft, { keepalive });
+  api.put(`/api/tasks/${taskId}/draft`, draft, undefined, { keepalive });

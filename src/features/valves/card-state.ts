@@ -93,12 +93,14 @@ export function readEntry(e: ValveEntry, slot: ValveSlotView, adjuster: Adjuster
   const fitted = isShim ? shim(e.fittedText) : { mm: null };
   const left = parseClearance(e.asLeftText, e.asLeftUnit);
   const changed = fitted.mm != null && fitted.mm !== before.mm;
-  const leftMm = left.mm ?? found.mm;
+  const needsAsLeft = changed || (!isShim && e.screwAdjusted);
+  // After an adjustment the as-found value says nothing about how the valve was left.
+  const leftMm = needsAsLeft ? left.mm : (left.mm ?? found.mm);
   return {
     asFound: found.asFound, asFoundMm: found.mm, asFoundBelowMm: found.below, asFoundError: found.error,
     shimMm: before.mm, shimError: before.error, fittedMm: fitted.mm, fittedError: fitted.error,
     asLeftMm: left.mm, asLeftError: left.error,
-    needsAsLeft: changed || (!isShim && e.screwAdjusted), leftMm, spec: specState(leftMm, slot),
+    needsAsLeft, leftMm, spec: specState(leftMm, slot),
   };
 }
 

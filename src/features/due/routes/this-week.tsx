@@ -1,3 +1,4 @@
+import type { ReactNode } from 'react';
 import { useMemo } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { DataTable } from '../../../components/ui/data-table';
@@ -13,7 +14,8 @@ import { SiteSummary } from '../components/site-summary';
 import { WeekSection } from '../components/week-section';
 
 /** The manager's Monday: what is late, what comes this week, what stands in the yard. */
-export function ThisWeekRoute() {
+/** `extra` is what other features add to the board (valve warnings), composed in src/app. */
+export function ThisWeekRoute({ extra }: { extra?: ReactNode } = {}) {
   const week = useQuery(dueQueries.list({ within: 7 }));
   const bikes = useQuery(dueQueries.bikes());
   const sites = useQuery(referenceQueries.sites());
@@ -44,6 +46,7 @@ export function ThisWeekRoute() {
           <WeekSection title="Out of service" icon="■" count={grounded.length} tone="ink">
             <GroundedList bikes={grounded} />
           </WeekSection>
+          {extra}
         </>
       )}
       <DueListPanel knownItems={knownItems} />

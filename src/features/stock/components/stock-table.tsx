@@ -6,7 +6,7 @@ import { fmtSize, type SizeRow } from '../stock-rows';
 function State({ r }: { r: SizeRow }) {
   if (r.short > 0) return <ToneBadge tone="stop" icon="!">Below minimum: {r.short} short</ToneBadge>;
   if (r.newCount + r.usedCount === 0) return <ToneBadge tone="neutral" icon="○">None on the shelf</ToneBadge>;
-  return <ToneBadge tone="ok" icon="✓">Enough</ToneBadge>;
+  return <ToneBadge tone="ok" icon="✓">In stock</ToneBadge>;
 }
 
 export function StockTable({ rows, onPick }: { rows: SizeRow[]; onPick?: (sizeMm: number) => void }) {

@@ -46,13 +46,19 @@ export function ShimStockRoute() {
         <h2 id="reorder" className="text-xl font-bold">To order</h2>
         {reorder.isPending ? <Loading what="the reorder list" /> : reorder.error ? <ErrorPanel error={reorder.error} retry={() => reorder.refetch()} /> : <ReorderList items={reorder.data.items} />}
       </section>
-      <section aria-labelledby="shelf" className="flex flex-col gap-2">
-        <h2 id="shelf" className="text-xl font-bold">On the shelf</h2>
-        <p className="text-ink-soft">Every size the fleet’s engines take. Shims taken out of an engine come back as used; a valve card takes used shims first.</p>
-        {stock.isPending ? <Loading what="the shelf" /> : stock.error ? <ErrorPanel error={stock.error} retry={() => stock.refetch()} /> : <StockTable rows={rows} onPick={canAdjust ? pick : undefined} />}
-      </section>
-      {canAdjust && stock.data && <AdjustForm key={siteId} siteId={siteId} sizes={rows.map((r) => r.sizeMm)} size={size} onSize={setSize} />}
-      {me.role === 'manager' && stock.data && <MinimumForm key={`min-${siteId}`} siteId={siteId} rows={rows} size={size} onSize={setSize} />}
+      <div className="grid items-start gap-6 lg:grid-cols-[minmax(0,1fr)_26rem]">
+        <section aria-labelledby="shelf" className="flex flex-col gap-2">
+          <h2 id="shelf" className="text-xl font-bold">On the shelf</h2>
+          <p className="text-ink-soft">Every size the fleet’s engines take. Shims taken out of an engine come back as used; a valve card takes used shims first.</p>
+          {stock.isPending ? <Loading what="the shelf" /> : stock.error ? <ErrorPanel error={stock.error} retry={() => stock.refetch()} /> : <StockTable rows={rows} onPick={canAdjust ? pick : undefined} />}
+        </section>
+        {stock.data && (canAdjust || me.role === 'manager') && (
+          <aside className="flex flex-col gap-4 lg:sticky lg:top-4">
+            {canAdjust && <AdjustForm key={siteId} siteId={siteId} sizes={rows.map((r) => r.sizeMm)} size={size} onSize={setSize} />}
+            {me.role === 'manager' && <MinimumForm key={`min-${siteId}`} siteId={siteId} rows={rows} size={size} onSize={setSize} />}
+          </aside>
+        )}
+      </div>
       <SafetyNote />
     </article>
   );

@@ -17,7 +17,7 @@ export function CardHeader({ card, canWork }: { card: ValveCard; canWork: boolea
   const start = useStartValveTask(task.id);
   return (
     <header className="flex flex-col gap-3">
-      <Link to="/tasks" className="text-accent underline-offset-4 hover:underline">← My tasks</Link>
+      <Link to="/tasks" className="text-accent underline-offset-4 hover:underline">← Tasks</Link>
       <div className="flex flex-wrap items-center gap-3">
         <h1 className="text-display font-bold">
           <Link to={`/fleet/${task.bikeId}`} className="text-accent underline-offset-4 hover:underline">{task.fleetNumber}</Link>

@@ -30,7 +30,7 @@ export function SignedOff({ task }: { task: Task }) {
         </p>
       )}
       <div className="flex flex-wrap gap-3">
-        <Link to="/tasks" className="inline-flex min-h-14 items-center rounded-card bg-accent px-6 text-lg font-semibold text-white hover:bg-accent-strong">← Back to my tasks</Link>
+        <Link to="/tasks" className="inline-flex min-h-14 items-center rounded-card bg-accent px-6 text-lg font-semibold text-white hover:bg-accent-strong">← Back to tasks</Link>
         <Link to={`/fleet/${task.bikeId}`} className="inline-flex min-h-14 items-center rounded-card border-2 border-ink-line bg-paper-raised px-6 text-lg font-semibold">{task.fleetNumber}’s page</Link>
       </div>
     </section>

@@ -37,7 +37,7 @@ export function ValveRow({ slot, adjuster, entry, reading, series, sizesMm, unit
           </p>
           {slot.lastAsFoundMm != null && <p className="num text-ink-soft">Last check found {clearanceText(slot.lastAsFoundMm, unit)}</p>}
         </div>
-        <SpecBadge state={reading.spec} what={reading.asLeftMm != null ? 'As left' : 'As found'} />
+        <SpecBadge state={reading.spec} what={reading.asLeftMm != null ? 'As left' : 'As found'} remeasure={reading.needsAsLeft} />
       </header>
       {problems.length > 0 && (
         <ul role="alert" className="list-none rounded-card bg-state-stop-soft p-3 font-medium text-state-stop">

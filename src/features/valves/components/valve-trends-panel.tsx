@@ -13,7 +13,7 @@ import { ValveTrendTable } from './valve-trend-table';
 const ValveTrendChart = lazy(() => import('./valve-trend-chart').then((m) => ({ default: m.ValveTrendChart })));
 
 function TrendState({ v }: { v: ValveTrendView }) {
-  if (v.warning) return <ToneBadge tone="stop" icon="⚠">Reaches the minimum before the next check</ToneBadge>;
+  if (v.warning) return <ToneBadge tone="stop" icon="⚠">Check early</ToneBadge>;
   if (v.tightening) return <ToneBadge tone="soon" icon="▼">Closing up</ToneBadge>;
   if (v.closureMmPer1000Km == null) return <ToneBadge tone="neutral" icon="…">Too few checks for a trend</ToneBadge>;
   return <ToneBadge tone="ok" icon="✓">Steady</ToneBadge>;
@@ -33,7 +33,7 @@ function ValveTrend({ v }: { v: ValveTrendView }) {
         <p className="num text-sm">
           {v.closureMmPer1000Km > 0 ? 'Closing' : 'Opening'} {Math.abs(v.closureMmPer1000Km).toFixed(4)} mm per 1,000 km
           {v.kmAtSpecMin != null && <> · reaches {v.specMinMm.toFixed(2)} mm near {formatKm(v.kmAtSpecMin)}</>}
-          {v.nextCheckKm != null && <> · next check at {formatKm(v.nextCheckKm)}</>}
+          {v.nextCheckKm != null && (v.warning ? <strong className="text-state-stop">, before the next check at {formatKm(v.nextCheckKm)}</strong> : <> · next check at {formatKm(v.nextCheckKm)}</>)}
         </p>
       )}
       <FallbackBoundary fallback={<ValveTrendTable valve={v} />}>
@@ -64,7 +64,7 @@ export function ValveTrendsPanel({ bikeId }: { bikeId: string }) {
       ) : (
         <>
           <p className="text-sm text-ink-muted">
-            Dots: as found (filled) and as left (ring). Green band: the cold spec. Dashed red line: the trend from the last check to the next one, fitted so that one odd reading does not swing it.
+            Clearance in mm against km. Dots: as found (filled) and as left (ring). Green band: the cold spec. Dashed red line: the trend from the last check to the next one, fitted so that one odd reading does not swing it.
           </p>
           <div className="grid gap-3 md:grid-cols-2 xl:grid-cols-4">
             {q.data.valves.map((v) => (

@@ -1,0 +1,22 @@
+import { useQuery } from '@tanstack/react-query';
+import { ThisWeekRoute } from '../../features/due/routes/this-week';
+import { WarningsList } from '../../features/valves/components/warnings-list';
+import { valveQueries } from '../../features/valves/api';
+
+/** The manager's board, with the valves that are closing up faster than their interval allows. */
+export function ThisWeekBoard() {
+  const warnings = useQuery(valveQueries.warnings());
+  return (
+    <ThisWeekRoute
+      extra={
+        <section aria-labelledby="valve-warnings" className="flex flex-col gap-2">
+          <h2 id="valve-warnings" className="flex items-center gap-2 text-xl font-bold">
+            <span aria-hidden className="inline-flex h-7 w-7 items-center justify-center rounded-full bg-state-soon text-sm font-black text-ink">↘</span>
+            Valves closing up ({warnings.data?.items.length ?? '…'})
+          </h2>
+          {warnings.data && <WarningsList items={warnings.data.items} />}
+        </section>
+      }
+    />
+  );
+}
