@@ -1,24 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import sharp from 'sharp';
-import type { BrowserContext } from 'playwright-core';
-import { hasBrowser, launchBrowser, shotOnFailure, signIn, startDemoServer, type Running } from './support';
+import { demoSession, hasBrowser, shotOnFailure, signIn } from './support';
 
 describe.skipIf(!hasBrowser)('the desk reports a worn tyre with a photo and the bike is grounded', () => {
-  let server: Running;
-  let browser: BrowserContext;
-  beforeAll(async () => {
-    server = await startDemoServer();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const demo = demoSession();
 
   it('records the defect, grounds the bike, attaches the photo and refuses the bike to the next rider', async () => {
-    const page = await browser.newPage();
+    const page = await demo.browser.newPage();
     await shotOnFailure(page, 'defect-photo', async () => {
-      await signIn(page, server.url, 'cal@saltmarsh.test');
+      await signIn(page, demo.server.url, 'cal@saltmarsh.test');
       await page.getByLabel('Fleet number or registration').fill('SM-12');
       await page.getByRole('list', { name: 'Matching bikes' }).getByRole('button').first().click();
       const latest = await page.evaluate(async () => (await (await fetch('/api/bikes?q=SM-12')).json()).items[0].latestOdometer as number);
@@ -40,7 +30,7 @@ describe.skipIf(!hasBrowser)('the desk reports a worn tyre with a photo and the 
         }), { timeout: 15_000 })
         .toEqual({ status: 'out_of_service', photos: 1 });
       // The next time anyone picks the bike at the counter, the refusal comes first.
-      await page.goto(`${server.url}/check-in`);
+      await page.goto(`${demo.server.url}/check-in`);
       await page.getByLabel('Fleet number or registration').fill('SM-12');
       await page.getByRole('list', { name: 'Matching bikes' }).getByRole('button').first().click();
       await page.getByText('Do not hand this bike to a rider').first().waitFor();

@@ -1,23 +1,13 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { BrowserContext } from 'playwright-core';
-import { hasBrowser, launchBrowser, shotOnFailure, signIn, startDemoServer, type Running } from './support';
+import { describe, expect, it } from 'vitest';
+import { demoSession, hasBrowser, launchBrowser, shotOnFailure, signIn } from './support';
 
 describe.skipIf(!hasBrowser)('the manager signs in and sees the fleet register', () => {
-  let server: Running;
-  let browser: BrowserContext;
-  beforeAll(async () => {
-    server = await startDemoServer();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const demo = demoSession();
 
   it('lists the demo fleet, filters it, and opens a bike', async () => {
-    const page = await browser.newPage();
+    const page = await demo.browser.newPage();
     await shotOnFailure(page, 'fleet-register', async () => {
-      await signIn(page, server.url, 'imogen@saltmarsh.test');
+      await signIn(page, demo.server.url, 'imogen@saltmarsh.test');
       await page.getByRole('link', { name: 'Fleet', exact: true }).click();
       await page.getByRole('heading', { name: 'Fleet' }).waitFor();
       const table = page.getByRole('table', { name: 'Fleet register' });
@@ -33,7 +23,7 @@ describe.skipIf(!hasBrowser)('the manager signs in and sees the fleet register',
 
   it('keeps the desk out of administration', async () => {
     const page = await (await launchBrowser()).newPage();
-    await signIn(page, server.url, 'cal@saltmarsh.test');
+    await signIn(page, demo.server.url, 'cal@saltmarsh.test');
     await page.getByRole('heading', { name: 'Fleet' }).waitFor();
     expect(await page.getByRole('link', { name: 'People' }).count()).toBe(0);
     await page.context().close();

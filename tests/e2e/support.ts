@@ -1,3 +1,4 @@
+import { afterAll, beforeAll } from 'vitest';
 import { spawn, type ChildProcess } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { mkdtemp, rm } from 'node:fs/promises';
@@ -95,3 +96,22 @@ export async function shotOnFailure<T>(page: Page, name: string, fn: () => Promi
     throw e;
   }
 }
+
+/**
+ * One demo server and one browser for a describe block: `const demo = demoSession();` then
+ * `demo.server.url` and `demo.browser` inside the tests.
+ */
+export function demoSession() {
+  const s = {} as { server: Running; browser: BrowserContext };
+  beforeAll(async () => {
+    s.server = await startDemoServer();
+    s.browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await s.browser?.close();
+    await s.server?.stop();
+  });
+  return s;
+}
+
+export const fetchJson = (page: Page, url: string) => page.evaluate(async (u) => (await fetch(u)).json(), url);

@@ -1,25 +1,15 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { BrowserContext, Page } from 'playwright-core';
-import { hasBrowser, launchBrowser, shotOnFailure, signIn, startDemoServer, type Running } from './support';
+import { describe, expect, it } from 'vitest';
+import { demoSession, fetchJson, hasBrowser, shotOnFailure, signIn } from './support';
 
-const json = (page: Page, url: string) => page.evaluate(async (u) => (await fetch(u)).json(), url);
+const json = fetchJson;
 
 describe.skipIf(!hasBrowser)('a technician works a valve card on a Ridgeback', () => {
-  let server: Running;
-  let browser: BrowserContext;
-  beforeAll(async () => {
-    server = await startDemoServer();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const demo = demoSession();
 
   it('types readings, sees the shim advice and plan, signs off, and stock and the next due date change', async () => {
-    const page = await browser.newPage();
+    const page = await demo.browser.newPage();
     await shotOnFailure(page, 'valve-card', async () => {
-      await signIn(page, server.url, 'tomasz@saltmarsh.test');
+      await signIn(page, demo.server.url, 'tomasz@saltmarsh.test');
       await page.getByRole('heading', { name: /tasks/i }).first().waitFor();
       // The closing cylinder-2 exhaust valves of SM-01 brought its valve check forward.
       const tasks = (await json(page, '/api/tasks?status=active')).items as { id: string; fleetNumber: string; category: string; origin: string; bikeId: string; siteId: string }[];
@@ -29,7 +19,7 @@ describe.skipIf(!hasBrowser)('a technician works a valve card on a Ridgeback', (
       const used260 = (s: typeof stockBefore) => s.find((x) => x.sizeMm === 2.6 && x.condition === 'used')?.count ?? 0;
       const dueBefore = (await json(page, `/api/bikes/${task.bikeId}`)).due.find((d: { category: string }) => d.category === 'valves');
 
-      await page.goto(`${server.url}/tasks/${task.id}/valves`);
+      await page.goto(`${demo.server.url}/tasks/${task.id}/valves`);
       await page.getByRole('heading', { name: 'Cylinder 1 intake 1' }).waitFor();
       await page.getByRole('button', { name: /Start: bike into the workshop/ }).click();
       const labels = ['Cylinder 1 intake 1', 'Cylinder 1 intake 2', 'Cylinder 1 exhaust 1', 'Cylinder 1 exhaust 2', 'Cylinder 2 intake 1', 'Cylinder 2 intake 2', 'Cylinder 2 exhaust 1', 'Cylinder 2 exhaust 2'];
