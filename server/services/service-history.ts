@@ -51,7 +51,8 @@ export async function serviceRecordOf(db: DbOrTx, siteIds: string[], bikeId: str
     .from(valveReadings)
     .innerJoin(valveChecks, eq(valveChecks.id, valveReadings.checkId))
     .where(eq(valveChecks.bikeId, bikeId))
-    .orderBy(asc(valveReadings.cylinder), asc(valveReadings.side), asc(valveReadings.position));
+    // Along the head as a technician works: cylinder by cylinder, intake before exhaust.
+    .orderBy(asc(valveReadings.cylinder), sql`${valveReadings.side} = 'exhaust'`, asc(valveReadings.position));
 
   const spec = (side: 'intake' | 'exhaust') => (side === 'intake' ? [model.intakeMinUm, model.intakeMaxUm] : [model.exhaustMinUm, model.exhaustMaxUm]);
   const byCheck = new Map<string, { check: typeof valveChecks.$inferSelect; valves: ValveReadingView[] }>();
