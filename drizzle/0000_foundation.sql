@@ -338,6 +338,7 @@ CREATE INDEX "bikes_model" ON "bikes" USING btree ("model_id");--> statement-bre
 CREATE INDEX "defects_bike" ON "defects" USING btree ("bike_id");--> statement-breakpoint
 CREATE INDEX "due_states_due_date" ON "due_states" USING btree ("due_date");--> statement-breakpoint
 CREATE INDEX "odometer_readings_bike_date" ON "odometer_readings" USING btree ("bike_id","date","odometer_km");--> statement-breakpoint
+CREATE INDEX "odometer_readings_bike_km" ON "odometer_readings" USING btree ("bike_id","odometer_km");--> statement-breakpoint
 CREATE INDEX "outbox_pending" ON "outbox" USING btree ("status","next_attempt_at");--> statement-breakpoint
 CREATE INDEX "reading_templates_item" ON "reading_templates" USING btree ("service_item_id","position");--> statement-breakpoint
 CREATE UNIQUE INDEX "service_items_model_name" ON "service_items" USING btree ("model_id","name");--> statement-breakpoint

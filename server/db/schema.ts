@@ -126,7 +126,11 @@ export const odometerReadings = pgTable(
     recordedBy: uuid('recorded_by').references(() => users.id),
     createdAt: createdAt(),
   },
-  (t) => [index('odometer_readings_bike_date').on(t.bikeId, t.date, t.odometerKm)],
+  (t) => [
+    index('odometer_readings_bike_date').on(t.bikeId, t.date, t.odometerKm),
+    // The highest reading of a bike is one index probe (its latest odometer, its current km).
+    index('odometer_readings_bike_km').on(t.bikeId, t.odometerKm),
+  ],
 );
 
 export const sessions = pgTable(

@@ -4,10 +4,13 @@ import { bikeModels, bikes, odometerReadings, sites, users } from '../db/schema'
 import type { BikeListQuery, BikeSummary, OdometerReading } from '../../shared/schemas/bikes';
 import { fromKm } from '../../shared/domain/units';
 
-/** The latest reading per bike: the highest continuous distance recorded. */
+/**
+ * The latest reading of each bike listed, the highest continuous distance recorded: one probe of the
+ * (bike, km) index per bike, whatever the length of its history.
+ */
 const latest = (db: Db) =>
   db
-    .selectDistinctOn([odometerReadings.bikeId], {
+    .select({
       bikeId: odometerReadings.bikeId,
       odometerKm: odometerReadings.odometerKm,
       value: odometerReadings.value,
@@ -15,7 +18,9 @@ const latest = (db: Db) =>
       date: odometerReadings.date,
     })
     .from(odometerReadings)
-    .orderBy(odometerReadings.bikeId, desc(odometerReadings.odometerKm), desc(odometerReadings.createdAt))
+    .where(eq(odometerReadings.bikeId, bikes.id))
+    .orderBy(desc(odometerReadings.odometerKm), desc(odometerReadings.createdAt))
+    .limit(1)
     .as('latest');
 
 export async function listBikes(db: Db, siteIds: string[], f: BikeListQuery & { ids?: string[] } = {}): Promise<BikeSummary[]> {
@@ -35,7 +40,7 @@ export async function listBikes(db: Db, siteIds: string[], f: BikeListQuery & { 
     .from(bikes)
     .innerJoin(bikeModels, eq(bikeModels.id, bikes.modelId))
     .innerJoin(sites, eq(sites.id, bikes.siteId))
-    .leftJoin(l, eq(l.bikeId, bikes.id))
+    .leftJoinLateral(l, sql`true`)
     .where(and(...where))
     .orderBy(asc(bikes.fleetNumber));
   return rows.map(({ bike: b, model, site, lKm, lValue, lUnit, lDate }) => ({

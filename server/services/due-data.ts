@@ -1,6 +1,6 @@
-import { and, asc, desc, eq, gt, inArray, ne, sql } from 'drizzle-orm';
+import { asc, desc, eq, inArray, ne, sql, type SQL } from 'drizzle-orm';
 import type { DbOrTx } from '../db/client';
-import { bikeModels, bikes, odometerReadings, serviceItems, serviceRecords, sites } from '../db/schema';
+import { bikeModels, bikes, serviceItems, serviceRecords, sites } from '../db/schema';
 import type { KmReading } from '../../shared/domain/usage';
 import { addDaysIso, todayInZone } from '../../shared/domain/dates';
 import { toKm } from '../../shared/domain/units';
@@ -41,27 +41,21 @@ export async function loadDueInputs(db: DbOrTx, now: Date, bikeIds?: string[]): 
 
   const earliestToday = list.reduce((m, b) => (b.today < m ? b.today : m), list[0].today);
   const windowStart = addDaysIso(earliestToday, -USAGE_WINDOW_DAYS - 1);
-  const inScope = bikeIds ? inArray(odometerReadings.bikeId, ids) : sql`true`;
-  const add = (rows: { bikeId: string; date: string; odometerKm: number }[]) => {
-    for (const r of rows) readings.get(r.bikeId)?.push({ date: r.date, odometerKm: r.odometerKm });
-  };
-  const cols = { bikeId: odometerReadings.bikeId, date: odometerReadings.date, odometerKm: odometerReadings.odometerKm };
-  // Recent readings for the usage window, then each bike's first reading and its highest one.
-  add(await db.select(cols).from(odometerReadings).where(and(inScope, gt(odometerReadings.date, windowStart))));
-  add(
-    await db
-      .selectDistinctOn([odometerReadings.bikeId], cols)
-      .from(odometerReadings)
-      .where(inScope)
-      .orderBy(odometerReadings.bikeId, asc(odometerReadings.date), asc(odometerReadings.odometerKm)),
-  );
-  add(
-    await db
-      .selectDistinctOn([odometerReadings.bikeId], cols)
-      .from(odometerReadings)
-      .where(inScope)
-      .orderBy(odometerReadings.bikeId, desc(odometerReadings.odometerKm)),
-  );
+  const latestToday = list.reduce((m, b) => (b.today > m ? b.today : m), list[0].today);
+  // Per bike, the few readings that decide its current km and its usage, each an index probe:
+  // the first ever, the first two inside the usage window, the last up to today, the highest.
+  const probe = (where: SQL, order: SQL, limit = 1) =>
+    sql`select date::text as date, odometer_km as km from odometer_readings r where r.bike_id = b.id and ${where} order by ${order} limit ${limit}`;
+  const { rows } = (await db.execute(sql`
+    select b.id as bike_id, p.date, p.km from bikes b
+    cross join lateral (
+      (${probe(sql`true`, sql`date, odometer_km`)})
+      union all (${probe(sql`r.date > ${windowStart}`, sql`date, odometer_km`, 2)})
+      union all (${probe(sql`r.date <= ${latestToday}`, sql`date desc, odometer_km desc`)})
+      union all (${probe(sql`true`, sql`odometer_km desc`)})
+    ) p
+    where b.id in (${sql.join(ids.map((id) => sql`${id}`), sql`, `)})`)) as unknown as { rows: { bike_id: string; date: string; km: number }[] };
+  for (const r of rows) readings.get(r.bike_id)?.push({ date: r.date, odometerKm: Number(r.km) });
   for (const b of list) {
     const r = readings.get(b.id)!;
     if (!r.length) r.push({ date: b.inServiceDate, odometerKm: toKm(b.inServiceOdometer, b.odometerUnit) });

@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, lte, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { DbOrTx } from '../db/client';
 import { bikeModels, bikes, dueStates, serviceItems, serviceTasks, sites, users } from '../db/schema';
@@ -23,6 +23,8 @@ export async function listDue(db: DbOrTx, siteIds: string[], f: DueFilter, now: 
   if (f.modelId) where.push(eq(bikes.modelId, f.modelId));
   if (f.status) where.push(eq(dueStates.status, f.status));
   if (f.item) where.push(eq(serviceItems.name, f.item));
+  // The window in SQL, a day wide of any site's calendar; the exact per-site cut is made below.
+  if (!f.all) where.push(or(eq(dueStates.status, 'overdue'), lte(dueStates.dueDate, addDaysIso(todayInZone('UTC', now), (f.within ?? 7) + 1)))!);
   const rows = await db
     .select({
       d: dueStates,

@@ -1,4 +1,4 @@
-import { and, eq, inArray, or, sql } from 'drizzle-orm';
+import { and, eq, inArray, sql } from 'drizzle-orm';
 import type { DbOrTx as Writer } from '../db/client';
 import { bikes, dueStates, serviceTasks, userSites, users } from '../db/schema';
 import { computeDue, type DueResult } from '../../shared/domain/due';
@@ -111,10 +111,11 @@ export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): 
   await saveStates(db, computed, now);
   const wanted = computed.filter((c) => c.result.status !== 'ok');
   const loads = await technicianLoads(db, [...new Set(wanted.map((c) => c.siteId))]);
+  const existing = await existingTasks(db, [...new Set(wanted.map((c) => c.bikeId))]);
   let tasksRaised = 0;
   for (const c of wanted) {
     const key = cycleKey(c.result);
-    if (await hasTask(db, c.bikeId, c.item.id, key)) continue;
+    if (existing.has(c.bikeId, c.item.id, key)) continue;
     const inserted = await db
       .insert(serviceTasks)
       .values({
@@ -150,20 +151,23 @@ export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): 
   return { computed: computed.length, tasksRaised, bikesGrounded };
 }
 
-/** A task for this cycle already raised, or any task for the item still open (an early one, say). */
-async function hasTask(db: Writer, bikeId: string, itemId: string, key: string) {
-  const [exists] = await db
-    .select({ id: serviceTasks.id })
+/**
+ * Which (bike, item) pairs already have a task for a given cycle or any task still open (an early
+ * one, say): read once for the bikes concerned rather than once per item.
+ */
+async function existingTasks(db: Writer, bikeIds: string[]) {
+  const open = new Set<string>();
+  const cycles = new Set<string>();
+  if (!bikeIds.length) return { has: () => false };
+  const rows = await db
+    .select({ bikeId: serviceTasks.bikeId, itemId: serviceTasks.serviceItemId, key: serviceTasks.cycleKey, status: serviceTasks.status })
     .from(serviceTasks)
-    .where(
-      and(
-        eq(serviceTasks.bikeId, bikeId),
-        eq(serviceTasks.serviceItemId, itemId),
-        or(eq(serviceTasks.cycleKey, key), inArray(serviceTasks.status, ['open', 'in_progress'])),
-      ),
-    )
-    .limit(1);
-  return !!exists;
+    .where(inArray(serviceTasks.bikeId, bikeIds));
+  for (const r of rows) {
+    cycles.add(`${r.bikeId}:${r.itemId}:${r.key}`);
+    if (r.status === 'open' || r.status === 'in_progress') open.add(`${r.bikeId}:${r.itemId}`);
+  }
+  return { has: (bikeId: string, itemId: string, key: string) => open.has(`${bikeId}:${itemId}`) || cycles.has(`${bikeId}:${itemId}:${key}`) };
 }
 
 /**
@@ -173,10 +177,11 @@ async function hasTask(db: Writer, bikeId: string, itemId: string, key: string) 
 export async function raiseEarlyValveChecks(db: Writer, computed: ComputedDue[], warnedBikeIds: Set<string>, now: Date) {
   let raised = 0;
   const loads = await technicianLoads(db, [...new Set(computed.filter((c) => warnedBikeIds.has(c.bikeId)).map((c) => c.siteId))]);
+  const existing = await existingTasks(db, [...warnedBikeIds]);
   for (const c of computed) {
     if (c.item.category !== 'valves' || !warnedBikeIds.has(c.bikeId)) continue;
     const key = `trend:${cycleKey(c.result)}`;
-    if (await hasTask(db, c.bikeId, c.item.id, key)) continue;
+    if (existing.has(c.bikeId, c.item.id, key)) continue;
     const rows = await db
       .insert(serviceTasks)
       .values({
