@@ -24,7 +24,9 @@ describe.skipIf(!hasBrowser)('the manager signs in and sees the fleet register',
   it('keeps the desk out of administration', async () => {
     const page = await (await launchBrowser()).newPage();
     await signIn(page, demo.server.url, 'cal@saltmarsh.test');
-    await page.getByRole('heading', { name: 'Fleet' }).waitFor();
+    // The desk lands on the check-in screen, its first screen.
+    await page.getByRole('heading', { name: 'Check-in' }).waitFor();
+    expect(await page.getByRole('link', { name: 'Fleet', exact: true }).count()).toBe(1);
     expect(await page.getByRole('link', { name: 'People' }).count()).toBe(0);
     await page.context().close();
   });
