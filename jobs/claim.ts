@@ -1,4 +1,4 @@
-import { and, eq } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import { CronExpressionParser } from 'cron-parser';
 import type { Db } from '../server/db/client';
 import { jobRuns } from '../server/db/schema';
@@ -9,9 +9,18 @@ import { jobRuns } from '../server/db/schema';
  * works the same on PGlite, PostgreSQL and engines without advisory locks.
  */
 export async function claimSlot(db: Db, job: string, slot: string, now: Date) {
-  const rows = await db.insert(jobRuns).values({ job, slot, startedAt: now }).onConflictDoNothing().returning({ job: jobRuns.job });
+  // A run that started long ago and never finished died with its process (a scan killed halfway):
+  // the slot may be claimed again, once, by whoever gets there first.
+  const stale = new Date(now.getTime() - STALE_AFTER_MS);
+  const rows = await db
+    .insert(jobRuns)
+    .values({ job, slot, startedAt: now })
+    .onConflictDoUpdate({ target: [jobRuns.job, jobRuns.slot], set: { startedAt: now }, setWhere: sql`${jobRuns.finishedAt} is null and ${jobRuns.startedAt} < ${stale}` })
+    .returning({ job: jobRuns.job });
   return rows.length > 0;
 }
+
+export const STALE_AFTER_MS = 30 * 60_000;
 
 export async function finishSlot(db: Db, job: string, slot: string, result: unknown, now: Date) {
   await db.update(jobRuns).set({ finishedAt: now, result }).where(and(eq(jobRuns.job, job), eq(jobRuns.slot, slot)));

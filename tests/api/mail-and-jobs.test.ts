@@ -7,6 +7,7 @@ import { PASSWORD, makeServiceItem, world } from '../support/factories';
 import { outbox } from '../../server/db/schema';
 import { isoWeekLabel } from '../../jobs/weekly-digest';
 import { MAX_ATTEMPTS, backoffMinutes } from '../../server/mail/outbox';
+import { STALE_AFTER_MS, claimSlot, finishSlot } from '../../jobs/claim';
 
 const clock = manualClock('2026-06-15T06:00:00Z');
 let t: TestContext;
@@ -33,6 +34,22 @@ describe('ISO week label', () => {
     expect(isoWeekLabel('2026-12-31')).toBe('2026-W53');
     expect(isoWeekLabel('2027-01-01')).toBe('2026-W53');
     expect(isoWeekLabel('2026-06-15')).toBe('2026-W25');
+  });
+});
+
+describe('claimed time slots', () => {
+  it('runs a slot once, and again only when its run died unfinished (a scan killed halfway)', async () => {
+    const db = t.database.db;
+    const now = new Date('2026-06-15T05:30:00Z');
+    expect(await claimSlot(db, 'due-scan', 'test-slot', now)).toBe(true);
+    expect(await claimSlot(db, 'due-scan', 'test-slot', now)).toBe(false);
+    // Still within the stale limit: the first run may still be going.
+    expect(await claimSlot(db, 'due-scan', 'test-slot', new Date(now.getTime() + STALE_AFTER_MS / 2))).toBe(false);
+    const later = new Date(now.getTime() + STALE_AFTER_MS + 1000);
+    expect(await claimSlot(db, 'due-scan', 'test-slot', later)).toBe(true);
+    expect(await claimSlot(db, 'due-scan', 'test-slot', later)).toBe(false);
+    await finishSlot(db, 'due-scan', 'test-slot', { summary: 'done' }, later);
+    expect(await claimSlot(db, 'due-scan', 'test-slot', new Date(later.getTime() + 2 * STALE_AFTER_MS))).toBe(false);
   });
 });
 
