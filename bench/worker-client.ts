@@ -18,10 +18,11 @@ export interface Worker {
 }
 
 /** Starts bench/worker.ts in a child process with tsx as its loader, and waits for it to listen. */
-export async function startWorker(opts: { dataDir?: string; dist?: string }): Promise<Worker> {
+/** `nodeArgs`: extra Node options for the server, e.g. `--cpu-prof` to see where its time goes. */
+export async function startWorker(opts: { dataDir?: string; dist?: string; nodeArgs?: string[] }): Promise<Worker> {
   const args = [...(opts.dataDir ? ['--data', opts.dataDir] : []), ...(opts.dist ? ['--dist', opts.dist] : [])];
   const child: ChildProcess = fork(join(BENCH_DIR, 'worker.ts'), args, {
-    execArgv: ['--import', 'tsx'],
+    execArgv: ['--import', import.meta.resolve('tsx'), ...(opts.nodeArgs ?? [])],
     env: { ...process.env, NODE_ENV: 'production' },
     stdio: ['ignore', 'inherit', 'inherit', 'ipc'],
   });

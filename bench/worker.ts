@@ -1,4 +1,5 @@
 import { createServer } from 'node:http';
+import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { existsSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import express, { type Express } from 'express';
@@ -7,6 +8,7 @@ import { testConfig } from '../server/config';
 import { openDatabase } from '../server/db/client';
 import { lockDataDir } from '../server/db/data-dir-lock';
 import { rawSql, statementRecorder } from './raw-sql';
+import { cpuProfiler } from './cpu-profile';
 import { scanParts, timedFloor, timedScan } from './scan-bench';
 import { checkInTargets, countExisting, explain, readingCount, timedInsertFloor, timedListDue } from './direct-bench';
 
@@ -28,13 +30,22 @@ const dist = values.dist;
 const serveDist = (app: Express) => {
   if (!dist || !existsSync(`${dist}/index.html`)) return;
   app.use(express.static(dist, { index: false, maxAge: '1h' }));
-  app.get('/{*splat}', (_req, res) => res.sendFile(`${dist}/index.html`));
+  // Relative to a root: an absolute path through bench/.data would be refused as a dot-file path.
+  app.get('/{*splat}', (_req, res) => res.sendFile('index.html', { root: dist }));
 };
 const app = createApp({ database, config: testConfig({ LOG_LEVEL: 'error' }), sessionSecret: 'bench-session-secret-bench', client: serveDist });
+// A request counts until its handler ends the response: a client that hangs up early (autocannon at
+// the end of a timed run) closes the socket long before the handler has finished its work.
 let inFlight = 0;
 const server = createServer((req, res) => {
   inFlight++;
-  res.once('close', () => inFlight--);
+  const end = res.end.bind(res) as (...a: unknown[]) => typeof res;
+  let ended = false;
+  res.end = ((...a: unknown[]) => {
+    if (!ended) inFlight--;
+    ended = true;
+    return end(...a);
+  }) as typeof res.end;
   app(req, res);
 });
 await new Promise<void>((r) => server.listen(0, '127.0.0.1', () => r()));
@@ -44,6 +55,9 @@ const memory = () => {
   const m = process.memoryUsage();
   return { rss: m.rss, heapUsed: m.heapUsed, external: m.external, maxRss: process.resourceUsage().maxRSS * 1024 };
 };
+
+const loopDelay = monitorEventLoopDelay({ resolution: 10 });
+const profiler = cpuProfiler();
 
 type Handler = (args: Record<string, unknown>) => Promise<unknown> | unknown;
 const handlers: Record<string, Handler> = {
@@ -60,6 +74,16 @@ const handlers: Record<string, Handler> = {
   recordStart: () => recorder.start(),
   recordStop: () => recorder.stop(),
   memory,
+  cpuStart: () => profiler.start(),
+  cpuStop: () => profiler.stop(),
+  loopDelayStart: () => {
+    loopDelay.reset();
+    loopDelay.enable();
+  },
+  loopDelayStop: () => {
+    loopDelay.disable();
+    return { max: loopDelay.max / 1e6, p99: loopDelay.percentile(99) / 1e6 };
+  },
   stop: async () => {
     server.closeAllConnections();
     await new Promise<void>((r) => server.close(() => r()));

@@ -1,0 +1,103 @@
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { chromium, type Page } from 'playwright-core';
+import { DEMO_PASSWORD, MANAGER_EMAIL } from './args';
+import { installPageMetrics, pageScript, timeSortClick, type PageMetrics } from './page-metrics';
+
+export const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'];
+
+export interface ScreenFigures {
+  route: string;
+  firstRowMs: number | null;
+  lcpMs: number | null;
+  cls: number;
+  shifts: PageMetrics['shifts'];
+  /** The slowest of three header clicks, until the table's DOM had changed, and until the next frame. */
+  sortDomMs: number | null;
+  sortPaintMs: number | null;
+  sortChanged: boolean;
+  rows: number;
+  /** Response end of the screen's main API call, from navigation start (Resource Timing). */
+  apiMs: number | null;
+  apiPath: string;
+  scriptBytes: number;
+  /** Scripts and API calls of the navigation, from navigation start: what waited for what. */
+  waterfall: { path: string; start: number; end: number; bytes: number }[];
+}
+
+interface Screen {
+  route: string;
+  api: string;
+  table: string;
+  header: string;
+}
+export const SCREENS: Screen[] = [
+  { route: '/fleet', api: '/api/bikes', table: 'Fleet register', header: 'Odometer' },
+  { route: '/this-week', api: '/api/due', table: 'Due within 7 days', header: 'Bike' },
+];
+
+async function measure(page: Page, base: string, s: Screen): Promise<ScreenFigures> {
+  await page.goto(`${base}${s.route}`, { waitUntil: 'commit' });
+  await page.waitForFunction(() => (window as unknown as { __bench: PageMetrics }).__bench.firstRowAt !== null, null, { timeout: 90_000 });
+  await page.waitForLoadState('networkidle', { timeout: 30_000 }).catch(() => {});
+  await page.waitForTimeout(500);
+  const m = await page.evaluate(pageScript((api: string) => {
+    const entries = performance.getEntriesByType('resource') as PerformanceResourceTiming[];
+    const call = entries.find((e) => new URL(e.name).pathname === api);
+    return {
+      metrics: (window as unknown as { __bench: PageMetrics }).__bench,
+      apiMs: call ? call.responseEnd : null,
+      scriptBytes: entries.filter((e) => e.initiatorType === 'script' || e.name.endsWith('.js')).reduce((t, e) => t + e.encodedBodySize, 0),
+      rows: document.querySelectorAll('tbody tr').length,
+      waterfall: entries
+        .filter((e) => e.name.endsWith('.js') || new URL(e.name).pathname.startsWith('/api/'))
+        .map((e) => ({ path: new URL(e.name).pathname, start: e.startTime, end: e.responseEnd, bytes: e.encodedBodySize })),
+    };
+  }, s.api)) as { metrics: PageMetrics; apiMs: number | null; scriptBytes: number; rows: number; waterfall: ScreenFigures['waterfall'] };
+  const sorts: { domMs: number; paintMs: number; changed: boolean }[] = [];
+  for (let i = 0; i < 3; i++) {
+    const r = (await page.evaluate(pageScript(timeSortClick, { caption: s.table, header: s.header }))) as (typeof sorts)[number] | null;
+    if (r) sorts.push(r);
+    await page.waitForTimeout(200);
+  }
+  const worst = (k: 'domMs' | 'paintMs') => (sorts.length ? Math.max(...sorts.map((x) => x[k])) : null);
+  return {
+    route: s.route,
+    firstRowMs: m.metrics.firstRowAt,
+    lcpMs: m.metrics.lcp,
+    cls: m.metrics.cls,
+    shifts: m.metrics.shifts,
+    sortDomMs: worst('domMs'),
+    sortPaintMs: worst('paintMs'),
+    sortChanged: sorts.length > 0 && sorts.every((x) => x.changed),
+    rows: m.rows,
+    apiMs: m.apiMs,
+    apiPath: s.api,
+    scriptBytes: m.scriptBytes,
+    waterfall: m.waterfall,
+  };
+}
+
+/** Signs in as the manager through the sign-in screen, then opens each screen afresh. */
+export async function browserBench(base: string): Promise<ScreenFigures[]> {
+  const profile = await mkdtemp(join(tmpdir(), 'lashline-bench-'));
+  const context = await chromium.launchPersistentContext(profile, { executablePath: CHROMIUM, headless: true, viewport: { width: 1280, height: 900 }, args: ARGS });
+  try {
+    await context.addInitScript({ content: pageScript(installPageMetrics) });
+    const page = context.pages()[0] ?? (await context.newPage());
+    page.setDefaultTimeout(90_000);
+    await page.goto(`${base}/sign-in`);
+    await page.getByLabel('E-mail').fill(MANAGER_EMAIL);
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL(/\/this-week$/);
+    const out: ScreenFigures[] = [];
+    for (const s of SCREENS) out.push(await measure(page, base, s));
+    return out;
+  } finally {
+    await context.close();
+    await rm(profile, { recursive: true, force: true });
+  }
+}

@@ -1,0 +1,43 @@
+import { spawnSync } from 'node:child_process';
+import { readFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { gzipSync } from 'node:zlib';
+import { BENCH_DIR } from './args';
+
+export interface BundleFigures {
+  buildSeconds: number;
+  /** The JS the page loads before any route chunk: the entry script and its modulepreload links. */
+  files: { file: string; bytes: number; gzip: number }[];
+  jsGzip: number;
+  jsBytes: number;
+  cssGzip: number;
+}
+
+/** Builds the client into its own folder (dist/ stays as it is) and weighs what index.html loads first. */
+export function buildAndWeigh(outDir: string): BundleFigures {
+  const root = resolve(BENCH_DIR, '..');
+  const t0 = performance.now();
+  const r = spawnSync('npx', ['vite', 'build', '--outDir', outDir, '--emptyOutDir', '--logLevel', 'warn'], { cwd: root, encoding: 'utf8' });
+  if (r.status !== 0) throw new Error(`vite build failed:\n${r.stdout}\n${r.stderr}`);
+  const buildSeconds = (performance.now() - t0) / 1000;
+  const html = readFileSync(join(outDir, 'index.html'), 'utf8');
+  const attr = (tag: string, name: string) => new RegExp(`${name}="([^"]+)"`).exec(tag)?.[1];
+  const tags = html.match(/<(script|link)\b[^>]*>/g) ?? [];
+  const js = tags
+    .filter((t) => (t.startsWith('<script') && /type="module"/.test(t)) || /rel="modulepreload"/.test(t))
+    .map((t) => attr(t, 'src') ?? attr(t, 'href'))
+    .filter((u): u is string => !!u);
+  const css = tags.filter((t) => /rel="stylesheet"/.test(t)).map((t) => attr(t, 'href')).filter((u): u is string => !!u);
+  const weigh = (url: string) => {
+    const buf = readFileSync(join(outDir, url.replace(/^\//, '')));
+    return { file: url, bytes: buf.length, gzip: gzipSync(buf).length };
+  };
+  const files = [...new Set(js)].map(weigh);
+  return {
+    buildSeconds,
+    files,
+    jsGzip: files.reduce((s, f) => s + f.gzip, 0),
+    jsBytes: files.reduce((s, f) => s + f.bytes, 0),
+    cssGzip: css.map(weigh).reduce((s, f) => s + f.gzip, 0),
+  };
+}
