@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../lib/api-client';
-import { TaskListSchema, TaskSchema, type CloseTask, type TaskListQuery } from '../../../shared/schemas/tasks';
+import { TaskListSchema, TaskSchema, type TaskListQuery } from '../../../shared/schemas/tasks';
 
 export const taskQueries = {
   all: () => ['tasks'] as const,
@@ -27,4 +27,3 @@ function useTaskMutation<V>(fn: (v: V) => Promise<unknown>) {
 
 export const useStartTask = () => useTaskMutation((id: string) => api.post(`/api/tasks/${id}/start`, {}, TaskResult));
 
-export const useCloseTask = () => useTaskMutation(({ id, ...body }: CloseTask & { id: string }) => api.post(`/api/tasks/${id}/close`, body, TaskResult));
