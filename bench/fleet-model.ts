@@ -1,4 +1,4 @@
-import { createRng, type Rng } from '../server/demo/prng';
+import { createRng, hashSeed, type Rng } from '../server/demo/prng';
 import type { ModelRow, ServiceItemRow } from '../server/demo/scenario';
 import type { Cell, TableKey } from './tables';
 import { measureValves, makeValves } from './valve-model';
@@ -65,6 +65,23 @@ function pickWeighted<T extends { weight?: number; share?: number }>(rng: Rng, l
   return list[list.length - 1];
 }
 
+/**
+ * Row ids made from the bike's number and a running count, in the UUID version-4 layout: unique by
+ * construction. Random ids from one 32-bit generator per bike collide at fleet scale (millions of ids
+ * drawn from overlapping streams).
+ */
+export function idMaker(seed: string, index: number) {
+  const prefix = hashSeed(seed).toString(16).padStart(8, '0');
+  const bike = index.toString(16).padStart(7, '0');
+  let n = 0;
+  return {
+    uuid: () => {
+      const c = (n++).toString(16).padStart(15, '0');
+      return `${prefix}-${bike.slice(0, 4)}-4${bike.slice(4)}-8${c.slice(0, 3)}-${c.slice(3)}`;
+    },
+  };
+}
+
 const stamp = (day: number, hour: number) => `${cal(day).iso}T${hour}:00:00.000Z`;
 
 export function fleetNumber(index: number, bikes: number) {
@@ -74,7 +91,7 @@ export function fleetNumber(index: number, bikes: number) {
 /** Appends one bike and its whole history to the batches. */
 export function simulateBike(ctx: FleetContext, index: number, bikes: number, out: Batches) {
   const rng = createRng(`${ctx.seed}/bike/${index}`);
-  const ids = createRng(`${ctx.seed}/ids/${index}`);
+  const ids = idMaker(ctx.seed, index);
   const model = pickWeighted(rng, ctx.models);
   const site = pickWeighted(rng, ctx.sites);
   const unit: 'km' | 'mi' = rng.chance(0.02) ? 'mi' : 'km';
@@ -106,13 +123,13 @@ export function simulateBike(ctx: FleetContext, index: number, bikes: number, ou
       ]);
     }
   }
-  serviceHistory(ctx, model, { bikeId, start, age, km, tech: site.tech }, rng, ids, out);
+  serviceHistory(model, { bikeId, start, age, km, tech: site.tech }, rng, ids, out);
 }
 
 interface BikeTrack { bikeId: string; start: number; age: number; km: Float64Array; tech: string }
 
 /** Each item done once within 10% of its distance or 10 days of its date, Sundays excepted. */
-function serviceHistory(ctx: FleetContext, model: FleetContext['models'][number], b: BikeTrack, rng: Rng, ids: Rng, out: Batches) {
+function serviceHistory(model: FleetContext['models'][number], b: BikeTrack, rng: Rng, ids: ReturnType<typeof idMaker>, out: Batches) {
   const valves = makeValves(model.row, rng);
   let lastCheckKm: number | null = null;
   const states = model.items.map((item) => ({
