@@ -45,17 +45,17 @@ export async function loadDueInputs(db: DbOrTx, now: Date, bikeIds?: string[]): 
   // Per bike, the few readings that decide its current km and its usage, each an index probe:
   // the first ever, the first two inside the usage window, the last up to today, the highest.
   const probe = (where: SQL, order: SQL, limit = 1) =>
-    sql`select date::text as date, odometer_km as km from odometer_readings r where r.bike_id = b.id and ${where} order by ${order} limit ${limit}`;
+    sql`select r.date::text as day, r.odometer_km as km from odometer_readings r where r.bike_id = b.id and ${where} order by ${order} limit ${limit}`;
   const { rows } = (await db.execute(sql`
-    select b.id as bike_id, p.date, p.km from bikes b
+    select b.id as bike_id, p.day, p.km from bikes b
     cross join lateral (
-      (${probe(sql`true`, sql`date, odometer_km`)})
-      union all (${probe(sql`r.date > ${windowStart}`, sql`date, odometer_km`, 2)})
-      union all (${probe(sql`r.date <= ${latestToday}`, sql`date desc, odometer_km desc`)})
-      union all (${probe(sql`true`, sql`odometer_km desc`)})
+      (${probe(sql`true`, sql`r.date, r.odometer_km`)})
+      union all (${probe(sql`r.date > ${windowStart}`, sql`r.date, r.odometer_km`, 2)})
+      union all (${probe(sql`r.date <= ${latestToday}`, sql`r.date desc, r.odometer_km desc`)})
+      union all (${probe(sql`true`, sql`r.odometer_km desc`)})
     ) p
-    where b.id in (${sql.join(ids.map((id) => sql`${id}`), sql`, `)})`)) as unknown as { rows: { bike_id: string; date: string; km: number }[] };
-  for (const r of rows) readings.get(r.bike_id)?.push({ date: r.date, odometerKm: Number(r.km) });
+    where b.id in (${sql.join(ids.map((id) => sql`${id}`), sql`, `)})`)) as unknown as { rows: { bike_id: string; day: string; km: number }[] };
+  for (const r of rows) readings.get(r.bike_id)?.push({ date: r.day, odometerKm: Number(r.km) });
   for (const b of list) {
     const r = readings.get(b.id)!;
     if (!r.length) r.push({ date: b.inServiceDate, odometerKm: toKm(b.inServiceOdometer, b.odometerUnit) });

@@ -3,6 +3,7 @@ import type { DbOrTx as Writer } from '../db/client';
 import { bikes, dueStates, serviceTasks, userSites, users } from '../db/schema';
 import { computeDue, type DueResult } from '../../shared/domain/due';
 import { toKm } from '../../shared/domain/units';
+import { usageRate } from '../../shared/domain/usage';
 import { audit } from '../audit';
 import { doneKey, loadDueInputs, type DueInputs } from './due-data';
 
@@ -22,6 +23,7 @@ export function computeAll(inputs: DueInputs): ComputedDue[] {
   for (const b of inputs.bikes) {
     const inService = { date: b.inServiceDate, odometerKm: toKm(b.inServiceOdometer, b.odometerUnit) };
     const readings = inputs.readings.get(b.id) ?? [];
+    const usageKmPerDay = usageRate(readings, b.today);
     for (const item of inputs.itemsByModel.get(b.modelId) ?? []) {
       const result = computeDue({
         interval: { everyKm: item.everyKm, everyMonths: item.everyMonths, firstAtKm: item.firstAtKm, rrule: item.rrule },
@@ -29,6 +31,7 @@ export function computeAll(inputs: DueInputs): ComputedDue[] {
         inService,
         readings,
         today: b.today,
+        usageKmPerDay,
       });
       out.push({ bikeId: b.id, siteId: b.siteId, today: b.today, item, result });
     }

@@ -16,11 +16,19 @@ interface Ymd {
   day: number;
 }
 
+const MONTH_DAYS = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+
+/** Days in a month of the proleptic Gregorian calendar (the one JavaScript's Date uses). */
 export function daysInMonth(year: number, month: number): number {
+  if (Number.isInteger(year) && Number.isInteger(month) && month >= 1 && month <= 12) {
+    const leap = (year % 4 === 0 && year % 100 !== 0) || year % 400 === 0;
+    return month === 2 && leap ? 29 : MONTH_DAYS[month - 1];
+  }
   return new Date(utcMs(year, month + 1, 0)).getUTCDate();
 }
 
 function utcMs(year: number, month: number, day: number): number {
+  if (year >= 100) return Date.UTC(year, month - 1, day);
   // Date.UTC maps years 0–99 to 1900–1999; setUTCFullYear does not.
   const d = new Date(Date.UTC(2000, 0, 1));
   d.setUTCFullYear(year, month - 1, day);

@@ -78,6 +78,25 @@ function neverOccurs(parts: Map<string, string>): boolean {
  * saying what to change.
  */
 export function parseRule(text: string): Partial<RuleOptions> {
+  const key = String(text);
+  let parsed = parsedRules.get(key);
+  if (parsed === undefined) {
+    try {
+      parsed = readRule(key);
+    } catch (e) {
+      parsed = e instanceof Error ? e : new Error(String(e));
+    }
+    // Every bike of a model shares its rules: parse each text once (a fleet scan would otherwise parse thousands of times).
+    if (parsedRules.size >= 500) parsedRules.clear();
+    parsedRules.set(key, parsed);
+  }
+  if (parsed instanceof Error) throw new Error(parsed.message);
+  return { ...parsed };
+}
+
+const parsedRules = new Map<string, Partial<RuleOptions> | Error>();
+
+function readRule(text: string): Partial<RuleOptions> {
   const body = String(text).trim().toUpperCase().replace(/^RRULE:/, '').replace(/;$/, '');
   if (body === '') throw new Error('The repeat rule is empty: write one such as FREQ=YEARLY;BYMONTH=3;BYMONTHDAY=1.');
   if (/DTSTART|TZID/.test(body)) throw new Error('Leave DTSTART out of the repeat rule: it counts from the last time the work was done.');
@@ -122,9 +141,17 @@ function ruleFrom(text: string, start: IsoDate) {
 
 /** The rule's first date strictly after `start`, counting from DTSTART = `start`. */
 export function nextRuleDate(text: string, start: IsoDate): IsoDate | null {
+  const key = `${text}\n${start}`;
+  if (nextDates.has(key)) return nextDates.get(key)!;
   const next = ruleFrom(text, start).after(toUtcDate(addDaysIso(start, 1)), true);
-  return next ? fromUtcDate(next) : null;
+  const date = next ? fromUtcDate(next) : null;
+  // Many bikes share a baseline date (a fleet serviced on one day): remember the answer.
+  if (nextDates.size >= 5000) nextDates.clear();
+  nextDates.set(key, date);
+  return date;
 }
+
+const nextDates = new Map<string, IsoDate | null>();
 
 /** The rule's first `limit` dates from DTSTART = `start` (included when it matches). */
 export function ruleOccurrences(text: string, start: IsoDate, limit: number): IsoDate[] {
@@ -154,6 +181,8 @@ export interface DueInput {
   readings: readonly KmReading[];
   today: IsoDate;
   soon?: { days?: number; km?: number };
+  /** The bike's usage rate from usageRate(readings, today), when the caller has it already (one bike, many items). */
+  usageKmPerDay?: number | null;
 }
 
 export interface DueResult {
@@ -219,7 +248,7 @@ export function computeDue(input: DueInput): DueResult {
     if (compareIso(r.date, today) <= 0 && r.odometerKm > currentKm) currentKm = r.odometerKm;
   }
   const remainingKm = dueAtKm === null ? null : dueAtKm - currentKm;
-  const usageKmPerDay = usageRate(readings, today);
+  const usageKmPerDay = input.usageKmPerDay !== undefined ? input.usageKmPerDay : usageRate(readings, today);
 
   let projectedDateForKm: IsoDate | null = null;
   if (remainingKm !== null && remainingKm <= 0) projectedDateForKm = today;

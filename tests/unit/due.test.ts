@@ -1,8 +1,8 @@
 import { describe, it, expect } from 'vitest';
-import { addMonths, format } from 'date-fns';
+import { addMonths, format, getDaysInMonth } from 'date-fns';
 import { TZDate } from '@date-fns/tz';
 import * as rruleModule from 'rrule';
-import { addDaysIso, addMonthsIso, compareIso, daysBetween, isIsoDate, todayInZone } from '../../shared/domain/dates';
+import { addDaysIso, addMonthsIso, compareIso, daysBetween, daysInMonth, isIsoDate, todayInZone } from '../../shared/domain/dates';
 import { computeDue, describeRule, nextRuleDate, parseRule, ruleOccurrences, validateRule } from '../../shared/domain/due';
 
 type RruleModule = typeof rruleModule;
@@ -40,6 +40,17 @@ describe('calendar dates', () => {
     expect(daysBetween('2025-01-01', '2024-01-01')).toBe(-366);
     // 30 March 2025 is the UK's clock change (Summer Time Order); whole days are unaffected.
     expect(daysBetween('2025-03-29', '2025-03-31')).toBe(2);
+  });
+
+  it('counts the days of every month like date-fns getDaysInMonth', () => {
+    // Reference: date-fns getDaysInMonth on UTC dates; Gregorian leap rule (1900 is not leap, 2000 is).
+    for (const year of [1, 99, 100, 1600, 1900, 2000, 2023, 2024, 2100, 2400, 9999]) {
+      for (let month = 1; month <= 12; month++) {
+        expect(daysInMonth(year, month), `${year}-${month}`).toBe(getDaysInMonth(new TZDate(year, month - 1, 1, 'UTC')));
+      }
+    }
+    expect(daysInMonth(1900, 2)).toBe(28);
+    expect(daysInMonth(2000, 2)).toBe(29);
   });
 
   it('validates and compares YYYY-MM-DD dates', () => {
@@ -113,6 +124,13 @@ describe('repeat rules', () => {
     // rrule alone would loop for ever on a fractional INTERVAL.
     expect(validateRule('FREQ=MONTHLY;INTERVAL=2.5')).toMatch(/INTERVAL/);
     expect(validateRule('FREQ=YEARLY;BYMONTH=2;BYMONTHDAY=30')).toMatch(/No calendar date/);
+    // Parsed rules are remembered: the same text refused twice says the same, and a caller changing
+    // the options it got back cannot change the next answer.
+    expect(validateRule('FREQ=YEARLY;BYMONTH=2;BYMONTHDAY=30')).toMatch(/No calendar date/);
+    const first = parseRule('FREQ=YEARLY;BYMONTH=3;BYMONTHDAY=1');
+    first.bymonth = 7;
+    expect(parseRule('FREQ=YEARLY;BYMONTH=3;BYMONTHDAY=1').bymonth).toBe(3);
+    expect(nextRuleDate('FREQ=YEARLY;BYMONTH=3;BYMONTHDAY=1', '2025-06-01')).toBe('2026-03-01');
     expect(validateRule('FREQ=MONTHLY;COUNT=3;UNTIL=20300101')).toMatch(/not both/);
     // RFC 5545 3.3.10: BYWEEKNO only with YEARLY; BYMONTHDAY not with WEEKLY.
     expect(validateRule('FREQ=MONTHLY;BYWEEKNO=3')).toMatch(/BYWEEKNO/);
@@ -139,6 +157,15 @@ describe('computeDue: whichever comes first', () => {
       projectedDateForKm: '2025-03-02', dueDate: '2025-03-02', trigger: 'km', remainingDays: 10, status: 'ok',
       baseline: { date: '2025-01-10', odometerKm: 12_000, kind: 'last-done' },
     });
+  });
+
+  it('takes a usage rate worked out once per bike and gives the same answer', () => {
+    // Same trade example as above (100 km a day, 1,000 km to go: due in 10 days); the rate is passed in.
+    const readings = riddenDaily('2025-01-10', 12_000, 100, 5, 10);
+    const plain = computeDue({ interval: oil, lastDone, inService, readings, today: '2025-02-20' });
+    expect(computeDue({ interval: oil, lastDone, inService, readings, today: '2025-02-20', usageKmPerDay: 100 })).toEqual(plain);
+    // A bike known to stand still has no km date, whatever the readings say.
+    expect(computeDue({ interval: oil, lastDone, inService, readings, today: '2025-02-20', usageKmPerDay: null })).toMatchObject({ projectedDateForKm: null, trigger: 'calendar' });
   });
 
   it('the same bike turns "soon" within 500 km and "overdue" on reaching the km', () => {
