@@ -41,37 +41,56 @@ export function computeAll(inputs: DueInputs): ComputedDue[] {
 
 const cycleKey = (r: DueResult) => `${r.baseline.kind}:${r.baseline.date}:${Math.round(r.baseline.odometerKm)}`;
 
+/** The stored columns of a due state, with their SQL types, in the order the statement lists them. */
+const STATE_COLUMNS = [
+  ['status', 'text'],
+  ['due_at_km', 'double precision'],
+  ['due_by_date', 'date'],
+  ['projected_date_for_km', 'date'],
+  ['due_date', 'date'],
+  ['trigger', 'text'],
+  ['current_km', 'double precision'],
+  ['remaining_km', 'double precision'],
+  ['remaining_days', 'integer'],
+  ['usage_km_per_day', 'double precision'],
+  ['baseline_date', 'date'],
+  ['baseline_km', 'double precision'],
+] as const;
+const STATE_NAMES = STATE_COLUMNS.map(([c]) => c).join(', ');
+const STATE_RECORD = `bike_id uuid, service_item_id uuid, ${STATE_COLUMNS.map(([c, t]) => `${c} ${t}`).join(', ')}`;
+const STATE_UPDATE = STATE_COLUMNS.map(([c]) => `${c} = excluded.${c}`).join(', ');
+const STATE_CHANGED = `(${STATE_COLUMNS.map(([c]) => `due_states.${c}`).join(', ')}) is distinct from (${STATE_COLUMNS.map(([c]) => `excluded.${c}`).join(', ')})`;
+
+/**
+ * Stores the due states in one statement per few thousand rows, handed over as one JSON parameter;
+ * a row whose values did not change is left alone (computed_at says when it last changed).
+ */
 async function saveStates(db: Writer, computed: ComputedDue[], now: Date) {
-  for (let i = 0; i < computed.length; i += 500) {
-    const rows = computed.slice(i, i + 500).map(({ bikeId, item, result: r }) => ({
-      bikeId,
-      serviceItemId: item.id,
+  for (let i = 0; i < computed.length; i += 5000) {
+    const rows = computed.slice(i, i + 5000).map(({ bikeId, item, result: r }) => ({
+      bike_id: bikeId,
+      service_item_id: item.id,
       status: r.status,
-      dueAtKm: r.dueAtKm,
-      dueByDate: r.dueByDate,
-      projectedDateForKm: r.projectedDateForKm,
-      dueDate: r.dueDate,
+      due_at_km: r.dueAtKm,
+      due_by_date: r.dueByDate,
+      projected_date_for_km: r.projectedDateForKm,
+      due_date: r.dueDate,
       trigger: r.trigger,
-      currentKm: r.currentKm,
-      remainingKm: r.remainingKm,
-      remainingDays: r.remainingDays,
-      usageKmPerDay: r.usageKmPerDay,
-      baselineDate: r.baseline.date,
-      baselineKm: r.baseline.odometerKm,
-      computedAt: now,
+      current_km: r.currentKm,
+      remaining_km: r.remainingKm,
+      remaining_days: r.remainingDays,
+      usage_km_per_day: r.usageKmPerDay,
+      baseline_date: r.baseline.date,
+      baseline_km: r.baseline.odometerKm,
     }));
-    await db
-      .insert(dueStates)
-      .values(rows)
-      .onConflictDoUpdate({
-        target: [dueStates.bikeId, dueStates.serviceItemId],
-        set: Object.fromEntries(
-          Object.keys(rows[0]).filter((k) => k !== 'bikeId' && k !== 'serviceItemId').map((k) => [k, sql.raw(`excluded.${toSnake(k)}`)]),
-        ),
-      });
+    await db.execute(sql`
+      insert into due_states (bike_id, service_item_id, ${sql.raw(STATE_NAMES)}, computed_at)
+      select bike_id, service_item_id, ${sql.raw(STATE_NAMES)}, ${now.toISOString()}::timestamptz
+        from jsonb_to_recordset(${JSON.stringify(rows)}::jsonb) as x(${sql.raw(STATE_RECORD)})
+      on conflict (bike_id, service_item_id) do update set ${sql.raw(STATE_UPDATE)}, computed_at = excluded.computed_at
+      where ${sql.raw(STATE_CHANGED)}`);
   }
 }
-const toSnake = (s: string) => s.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
 
 /** Open minutes of work per technician, for giving new work to the least loaded one at the bike's site. */
 async function technicianLoads(db: Writer, siteIds: string[]) {
@@ -115,31 +134,25 @@ export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): 
   const wanted = computed.filter((c) => c.result.status !== 'ok');
   const loads = await technicianLoads(db, [...new Set(wanted.map((c) => c.siteId))]);
   const existing = await existingTasks(db, [...new Set(wanted.map((c) => c.bikeId))]);
-  let tasksRaised = 0;
-  for (const c of wanted) {
-    const key = cycleKey(c.result);
-    if (existing.has(c.bikeId, c.item.id, key)) continue;
-    const inserted = await db
-      .insert(serviceTasks)
-      .values({
-        bikeId: c.bikeId,
-        serviceItemId: c.item.id,
-        cycleKey: key,
-        dueDate: c.result.dueDate,
-        estimatedMinutes: c.item.estimatedMinutes,
-        assigneeId: pickTechnician(loads.get(c.siteId), c.item.estimatedMinutes),
-        raisedAt: now,
-      })
-      .onConflictDoNothing()
-      .returning({ id: serviceTasks.id });
-    tasksRaised += inserted.length;
-  }
+  const tasksRaised = await raiseTasks(
+    db,
+    wanted.flatMap((c) => {
+      const key = cycleKey(c.result);
+      if (existing.has(c.bikeId, c.item.id, key)) return [];
+      return [{ bikeId: c.bikeId, serviceItemId: c.item.id, cycleKey: key, dueDate: c.result.dueDate, estimatedMinutes: c.item.estimatedMinutes, assigneeId: pickTechnician(loads.get(c.siteId), c.item.estimatedMinutes), raisedAt: now }];
+    }),
+  );
   let bikesGrounded = 0;
   const unsafe = new Map<string, string[]>();
   for (const c of wanted) {
     if (c.result.status === 'overdue' && c.item.safetyCritical) unsafe.set(c.bikeId, [...(unsafe.get(c.bikeId) ?? []), c.item.name]);
   }
+  // Most of these bikes were grounded by an earlier run: one read finds the few still in service.
+  const riding = unsafe.size
+    ? new Set((await db.select({ id: bikes.id }).from(bikes).where(and(inArray(bikes.id, [...unsafe.keys()]), eq(bikes.status, 'in_service')))).map((b) => b.id))
+    : new Set<string>();
   for (const [bikeId, names] of unsafe) {
+    if (!riding.has(bikeId)) continue;
     const reason = `Overdue safety-critical work: ${names.join(', ')}. Do not ride until it is done and signed off.`;
     const changed = await db
       .update(bikes)
@@ -152,6 +165,19 @@ export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): 
     }
   }
   return { computed: computed.length, tasksRaised, bikesGrounded };
+}
+
+/**
+ * Inserts new tasks a few hundred rows per statement; the unique (bike, item, cycle) key turns a
+ * task another run raised meanwhile into no row. Returns how many were raised.
+ */
+async function raiseTasks(db: Writer, rows: (typeof serviceTasks.$inferInsert)[]) {
+  let raised = 0;
+  for (let i = 0; i < rows.length; i += 500) {
+    const inserted = await db.insert(serviceTasks).values(rows.slice(i, i + 500)).onConflictDoNothing().returning({ id: serviceTasks.id });
+    raised += inserted.length;
+  }
+  return raised;
 }
 
 /**
@@ -178,30 +204,27 @@ async function existingTasks(db: Writer, bikeIds: string[]) {
  * forward: an early valve task, once per due cycle, due today.
  */
 export async function raiseEarlyValveChecks(db: Writer, computed: ComputedDue[], warnedBikeIds: Set<string>, now: Date) {
-  let raised = 0;
   const loads = await technicianLoads(db, [...new Set(computed.filter((c) => warnedBikeIds.has(c.bikeId)).map((c) => c.siteId))]);
   const existing = await existingTasks(db, [...warnedBikeIds]);
-  for (const c of computed) {
-    if (c.item.category !== 'valves' || !warnedBikeIds.has(c.bikeId)) continue;
-    const key = `trend:${cycleKey(c.result)}`;
-    if (existing.has(c.bikeId, c.item.id, key)) continue;
-    const rows = await db
-      .insert(serviceTasks)
-      .values({
+  const raised = await raiseTasks(
+    db,
+    computed.flatMap((c) => {
+      if (c.item.category !== 'valves' || !warnedBikeIds.has(c.bikeId)) return [];
+      const key = `trend:${cycleKey(c.result)}`;
+      if (existing.has(c.bikeId, c.item.id, key)) return [];
+      return [{
         bikeId: c.bikeId,
         serviceItemId: c.item.id,
         cycleKey: key,
-        origin: 'trend',
+        origin: 'trend' as const,
         dueDate: c.today,
         estimatedMinutes: c.item.estimatedMinutes,
         assigneeId: pickTechnician(loads.get(c.siteId), c.item.estimatedMinutes),
         note: 'Raised early: a valve is closing up faster than the interval allows.',
         raisedAt: now,
-      })
-      .onConflictDoNothing()
-      .returning({ id: serviceTasks.id });
-    raised += rows.length;
-  }
+      }];
+    }),
+  );
   return raised;
 }
 

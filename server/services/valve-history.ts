@@ -1,6 +1,7 @@
-import { and, asc, eq, inArray, sql } from 'drizzle-orm';
+import { and, eq, inArray, sql } from 'drizzle-orm';
 import type { DbOrTx } from '../db/client';
-import { bikeModels, bikes, dueStates, serviceItems, valveChecks, valveReadings } from '../db/schema';
+import { jsonTuples } from '../db/json-rows';
+import { bikeModels, bikes } from '../db/schema';
 import { valveHistories, valveLayout, type StoredValveReading } from '../../shared/domain/valves';
 import { clearanceTrend } from '../../shared/domain/trend';
 import type { ValveTrendView } from '../../shared/schemas/valves';
@@ -8,33 +9,42 @@ import { toModelSummary } from './models';
 
 const mm = (um: number | null) => (um == null ? null : um / 1000);
 
-/** Every stored valve reading of the given bikes, in micrometres turned to mm. */
-export async function readingsForBikes(db: DbOrTx, bikeIds: string[]) {
-  if (!bikeIds.length) return new Map<string, StoredValveReading[]>();
-  const rows = await db
-    .select({ bikeId: valveChecks.bikeId, date: valveChecks.date, odometerKm: valveChecks.odometerKm, r: valveReadings })
-    .from(valveReadings)
-    .innerJoin(valveChecks, eq(valveChecks.id, valveReadings.checkId))
-    .where(inArray(valveChecks.bikeId, bikeIds))
-    .orderBy(asc(valveChecks.odometerKm));
+type ReadingTuple = [string, string, number, number, 'intake' | 'exhaust', number, number, number | null, number | null, number | null];
+
+/** Every stored valve reading of the given bikes (or of their sites), in micrometres turned to mm, lowest km first. */
+export async function readingsForBikes(db: DbOrTx, bikeIds: string[], siteIds?: string[]) {
   const by = new Map<string, StoredValveReading[]>();
-  for (const { bikeId, date, odometerKm, r } of rows) {
+  if (!bikeIds.length) return by;
+  const scope = siteIds
+    ? sql`c.bike_id in (select id from bikes where site_id in (${sql.join(siteIds.map((id) => sql`${id}`), sql`, `)}))`
+    : sql`c.bike_id in (${sql.join(bikeIds.map((id) => sql`${id}`), sql`, `)})`;
+  const rows = await jsonTuples<ReadingTuple>(
+    db,
+    sql`select json_build_array(c.bike_id, c.date, c.odometer_km, r.cylinder, r.side, r.position, r.as_found_um, r.as_left_um, r.shim_before_um, r.shim_after_um) as a
+          from valve_readings r join valve_checks c on c.id = r.check_id
+         where ${scope}
+         order by c.odometer_km, c.date, r.cylinder, r.side, r.position`,
+  );
+  for (const [bikeId, date, odometerKm, cylinder, side, position, asFoundUm, asLeftUm, shimBeforeUm, shimAfterUm] of rows) {
     const list = by.get(bikeId) ?? [];
-    list.push({ odometerKm, date, cylinder: r.cylinder, side: r.side, position: r.position, asFoundMm: r.asFoundUm / 1000, asLeftMm: mm(r.asLeftUm), shimBeforeMm: mm(r.shimBeforeUm), shimAfterMm: mm(r.shimAfterUm) });
+    list.push({ odometerKm, date, cylinder, side, position, asFoundMm: asFoundUm / 1000, asLeftMm: mm(asLeftUm), shimBeforeMm: mm(shimBeforeUm), shimAfterMm: mm(shimAfterUm) });
     by.set(bikeId, list);
   }
   return by;
 }
 
 /** When each bike's next valve check falls due, in continuous km (from the stored due state). */
-async function nextValveCheckKm(db: DbOrTx, bikeIds: string[]) {
+async function nextValveCheckKm(db: DbOrTx, bikeIds: string[], siteIds?: string[]) {
   if (!bikeIds.length) return new Map<string, number | null>();
-  const rows = await db
-    .select({ bikeId: dueStates.bikeId, dueAtKm: dueStates.dueAtKm })
-    .from(dueStates)
-    .innerJoin(serviceItems, eq(serviceItems.id, dueStates.serviceItemId))
-    .where(and(inArray(dueStates.bikeId, bikeIds), eq(serviceItems.category, 'valves')));
-  return new Map(rows.map((r) => [r.bikeId, r.dueAtKm]));
+  const scope = siteIds
+    ? sql`d.bike_id in (select id from bikes where site_id in (${sql.join(siteIds.map((id) => sql`${id}`), sql`, `)}))`
+    : sql`d.bike_id in (${sql.join(bikeIds.map((id) => sql`${id}`), sql`, `)})`;
+  const rows = await jsonTuples<[string, number | null]>(
+    db,
+    sql`select json_build_array(d.bike_id, d.due_at_km) as a from due_states d join service_items i on i.id = d.service_item_id
+         where i.category = 'valves' and ${scope}`,
+  );
+  return new Map(rows);
 }
 
 export interface BikeTrends {
@@ -55,7 +65,9 @@ export async function trendsForBikes(db: DbOrTx, where: { bikeIds?: string[]; si
     .innerJoin(bikeModels, eq(bikeModels.id, bikes.modelId))
     .where(and(cond, sql`${bikes.status} <> 'retired'`));
   const ids = list.map((b) => b.id);
-  const [readings, nextKm] = await Promise.all([readingsForBikes(db, ids), nextValveCheckKm(db, ids)]);
+  // One query after the other: a transaction's single connection cannot run two at once.
+  const readings = await readingsForBikes(db, ids, where.bikeIds ? undefined : where.siteIds);
+  const nextKm = await nextValveCheckKm(db, ids, where.bikeIds ? undefined : where.siteIds);
   return list.map((b) => {
     const m = toModelSummary(b.model);
     const histories = valveHistories(readings.get(b.id) ?? []);
