@@ -2,6 +2,7 @@ import express, { type Express } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
 import type { Database } from './db/client';
+import { ReadCache } from './cache/read-cache';
 import type { Config } from './config';
 import { DbSessionStore } from './auth/session-store';
 import { createPassport } from './auth/passport';
@@ -51,6 +52,8 @@ export interface AppContext {
   database: Database;
   config: Config;
   sessions: DbSessionStore;
+  /** Heavy fleet-wide answers, valid while the data version stands. */
+  readCache: ReadCache;
   now: () => Date;
   sessionSecret: string;
   publicUrl: (req?: import('express').Request) => string;
@@ -64,6 +67,7 @@ export function createApp(deps: AppDeps): Express {
     database,
     config,
     sessions: new DbSessionStore(database.db),
+    readCache: new ReadCache(database.db),
     now: deps.now ?? (() => new Date()),
     sessionSecret: deps.sessionSecret,
     jobToken: deps.jobToken,

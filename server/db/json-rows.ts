@@ -6,14 +6,18 @@ import type { DbOrTx } from './client';
  * rows cross from embedded PGlite far faster as one text value than as rows of many columns
  * (each column of each row is decoded in JavaScript), and node-postgres is no slower.
  * JSON types: date as 'YYYY-MM-DD', timestamptz as an ISO string with offset, numbers as numbers.
+ * `orderBy` names columns of the query's output; without it the order is not defined.
  */
-export async function jsonRows<T>(db: DbOrTx, query: SQL): Promise<T[]> {
-  const { rows } = (await db.execute(sql`select coalesce(json_agg(q), '[]')::text as v from (${query}) q`)) as unknown as { rows: { v: string }[] };
-  return JSON.parse(rows[0].v) as T[];
+export async function jsonRows<T>(db: DbOrTx, query: SQL, orderBy?: SQL): Promise<T[]> {
+  return aggregate<T>(db, sql`json_agg(q${orderBy ? sql` order by ${orderBy}` : sql``})`, query);
 }
 
-/** As jsonRows, for a query that selects one json_build_array(…) column named `a`: smaller than objects. */
-export async function jsonTuples<T extends unknown[]>(db: DbOrTx, query: SQL): Promise<T[]> {
-  const { rows } = (await db.execute(sql`select coalesce(json_agg(q.a), '[]')::text as v from (${query}) q`)) as unknown as { rows: { v: string }[] };
+/** As jsonRows, for a query whose column `a` is a json_build_array(…): smaller than objects. */
+export async function jsonTuples<T extends unknown[]>(db: DbOrTx, query: SQL, orderBy?: SQL): Promise<T[]> {
+  return aggregate<T>(db, sql`json_agg(q.a${orderBy ? sql` order by ${orderBy}` : sql``})`, query);
+}
+
+async function aggregate<T>(db: DbOrTx, agg: SQL, query: SQL): Promise<T[]> {
+  const { rows } = (await db.execute(sql`select coalesce(${agg}, '[]')::text as v from (${query}) q`)) as unknown as { rows: { v: string }[] };
   return JSON.parse(rows[0].v) as T[];
 }

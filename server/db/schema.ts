@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
 import {
+  bigint,
   bigserial,
   boolean,
   date,
@@ -143,6 +144,16 @@ export const sessions = pgTable(
   },
   (t) => [index('sessions_expire').on(t.expire), index('sessions_user').on(t.userId)],
 );
+
+/**
+ * A counter every write to the fleet's tables moves on (statement triggers, see the migrations),
+ * in the writing transaction: a cached answer read at version n is good while the counter says n,
+ * on every app instance sharing the database.
+ */
+export const dataVersions = pgTable('data_versions', {
+  scope: text('scope').primaryKey(),
+  n: bigint('n', { mode: 'number' }).notNull().default(0),
+});
 
 export const auditLog = pgTable(
   'audit_log',

@@ -5,6 +5,7 @@ import { currentUser, signedIn } from '../middleware/auth';
 import { validate } from '../middleware/validate';
 import { DueQuerySchema, type DueQuery } from '../../shared/schemas/due';
 import { listDue } from '../services/due-list';
+import { ReadCache } from '../cache/read-cache';
 import { todayInZone } from '../../shared/domain/dates';
 
 export const DUE_CSV_COLUMNS = ['fleet_number', 'site', 'model', 'item', 'status', 'due_date', 'trigger', 'remaining_km', 'remaining_days', 'assignee', 'safety_critical'] as const;
@@ -14,8 +15,13 @@ export function dueRoutes(ctx: AppContext) {
   const db = ctx.database.db;
 
   r.get('/due', signedIn(), validate({ query: DueQuerySchema }), async (req, res) => {
-    const items = await listDue(db, currentUser(req).siteIds, req.valid.query as DueQuery, ctx.now());
-    res.json({ items, today: todayInZone(ctx.config.SCHEDULE_TZ, ctx.now()) });
+    const { siteIds } = currentUser(req);
+    const q = req.valid.query as DueQuery;
+    const now = ctx.now();
+    await ctx.readCache.send(req, res, ReadCache.key('due', siteIds, q, now), async () => ({
+      items: await listDue(db, siteIds, q, now),
+      today: todayInZone(ctx.config.SCHEDULE_TZ, now),
+    }));
   });
 
   // RFC 4180: CRLF line ends, fields with commas, quotes or line breaks quoted, quotes doubled.

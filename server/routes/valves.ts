@@ -1,5 +1,6 @@
 import { Router, type Request } from 'express';
 import { z } from 'zod';
+import { ReadCache } from '../cache/read-cache';
 import type { AppContext } from '../app';
 import { currentUser, requireRole, signedIn } from '../middleware/auth';
 import { validate } from '../middleware/validate';
@@ -33,11 +34,13 @@ export function valveRoutes(ctx: AppContext) {
   });
 
   r.get('/valves/rollup', requireRole('manager', 'admin', 'technician'), async (req, res) => {
-    res.json({ items: await fleetRollup(db, currentUser(req).siteIds) });
+    const { siteIds } = currentUser(req);
+    await ctx.readCache.send(req, res, ReadCache.key('valve-rollup', siteIds, null, ctx.now()), async () => ({ items: await fleetRollup(db, siteIds) }));
   });
 
   r.get('/valves/warnings', requireRole('manager', 'admin', 'technician'), async (req, res) => {
-    res.json({ items: await valveWarningsFor(db, currentUser(req).siteIds) });
+    const { siteIds } = currentUser(req);
+    await ctx.readCache.send(req, res, ReadCache.key('valve-warnings', siteIds, null, ctx.now()), async () => ({ items: await valveWarningsFor(db, siteIds) }));
   });
 
   r.get('/stock/shims', requireRole('technician', 'manager', 'admin'), validate({ query: SiteQuery }), async (req, res) => {

@@ -18,7 +18,10 @@ import { quote, readCatalog, schemaVersion, shapeDifferences, viaDrizzle, type Q
 // Sessions are never restored: everyone signs in again.
 
 export const JSON_FORMAT = 'lashline-backup';
-const NOT_RESTORED = new Set(['sessions']);
+// The data version counter stays the live database's own: the restore's writes move it on, so no
+// app instance keeps serving answers it cached before the restore.
+const KEPT = new Set(['data_versions']);
+const NOT_RESTORED = new Set(['sessions', ...KEPT]);
 const CHUNK = 5000;
 
 const orderBy = (t: TableInfo) => (t.key.length ? t.key.map(quote).join(', ') : `${quote(t.name)}::text`);
@@ -121,7 +124,7 @@ async function openSource(file: Buffer): Promise<Source> {
 }
 
 async function replaceAll(tx: Tx, live: TableInfo[], source: Source) {
-  await tx.execute(sql.raw(`truncate ${live.map((t) => quote(t.name)).join(', ')}`));
+  await tx.execute(sql.raw(`truncate ${live.filter((t) => !KEPT.has(t.name)).map((t) => quote(t.name)).join(', ')}`));
   const q = viaDrizzle(tx);
   const counts: RestoreReport['tables'] = [];
   for (const t of live) {

@@ -1,8 +1,9 @@
-import { and, asc, desc, eq, inArray, lte, or, sql, type SQL } from 'drizzle-orm';
-import { alias } from 'drizzle-orm/pg-core';
+import { sql, type SQL } from 'drizzle-orm';
 import type { DbOrTx } from '../db/client';
-import { bikeModels, bikes, dueStates, serviceItems, serviceTasks, sites, users } from '../db/schema';
+import { jsonRows } from '../db/json-rows';
 import type { DueItem, DueQuery } from '../../shared/schemas/due';
+import type { DueStatus } from '../../shared/domain/due';
+import type { OdometerUnit } from '../../shared/domain/units';
 import { fromKm } from '../../shared/domain/units';
 import { addDaysIso, todayInZone } from '../../shared/domain/dates';
 
@@ -12,83 +13,101 @@ export interface DueFilter extends Partial<DueQuery> {
   all?: boolean;
 }
 
-const assignee = alias(users, 'assignee');
+interface DueRow {
+  bike_id: string;
+  fleet_number: string;
+  site_id: string;
+  site_name: string;
+  time_zone: string;
+  model_name: string;
+  item_id: string;
+  item: string;
+  category: string;
+  safety_critical: boolean;
+  status: DueStatus;
+  due_date: string | null;
+  due_at_km: number | null;
+  due_by_date: string | null;
+  trigger: 'km' | 'calendar' | null;
+  remaining_km: number | null;
+  remaining_days: number | null;
+  usage_km_per_day: number | null;
+  odometer_unit: OdometerUnit;
+  baseline_date: string | null;
+  bike_status: string;
+  task_id: string | null;
+  assignee_id: string | null;
+  assignee_name: string | null;
+}
 
-/** The stored due states as the screens list them: overdue first, then by due date. */
+const ids = (list: string[]) => sql.join(list.map((id) => sql`${id}`), sql`, `);
+
+/**
+ * The stored due states as the screens list them: overdue first, then by due date, then fleet
+ * number; with the open task (the oldest, if there are two) and who has it.
+ */
 export async function listDue(db: DbOrTx, siteIds: string[], f: DueFilter, now: Date): Promise<DueItem[]> {
   if (!siteIds.length) return [];
-  const where: SQL[] = [inArray(bikes.siteId, siteIds), sql`${bikes.status} <> 'retired'`];
-  if (f.bikeId) where.push(eq(bikes.id, f.bikeId));
-  if (f.siteId) where.push(eq(bikes.siteId, f.siteId));
-  if (f.modelId) where.push(eq(bikes.modelId, f.modelId));
-  if (f.status) where.push(eq(dueStates.status, f.status));
-  if (f.item) where.push(eq(serviceItems.name, f.item));
+  const where: SQL[] = [sql`b.site_id in (${ids(siteIds)})`, sql`b.status <> 'retired'`];
+  if (f.bikeId) where.push(sql`b.id = ${f.bikeId}`);
+  if (f.siteId) where.push(sql`b.site_id = ${f.siteId}`);
+  if (f.modelId) where.push(sql`b.model_id = ${f.modelId}`);
+  if (f.status) where.push(sql`d.status = ${f.status}`);
+  if (f.item) where.push(sql`i.name = ${f.item}`);
+  const within = f.within ?? 7;
   // The window in SQL, a day wide of any site's calendar; the exact per-site cut is made below.
-  if (!f.all) where.push(or(eq(dueStates.status, 'overdue'), lte(dueStates.dueDate, addDaysIso(todayInZone('UTC', now), (f.within ?? 7) + 1)))!);
-  const rows = await db
-    .select({
-      d: dueStates,
-      bike: { id: bikes.id, fleetNumber: bikes.fleetNumber, unit: bikes.odometerUnit, status: bikes.status, siteId: bikes.siteId },
-      siteName: sites.name,
-      timeZone: sites.timeZone,
-      modelName: bikeModels.name,
-      item: { id: serviceItems.id, name: serviceItems.name, category: serviceItems.category, safetyCritical: serviceItems.safetyCritical },
-      taskId: serviceTasks.id,
-      assigneeId: assignee.id,
-      assigneeName: assignee.name,
-    })
-    .from(dueStates)
-    .innerJoin(bikes, eq(bikes.id, dueStates.bikeId))
-    .innerJoin(sites, eq(sites.id, bikes.siteId))
-    .innerJoin(bikeModels, eq(bikeModels.id, bikes.modelId))
-    .innerJoin(serviceItems, eq(serviceItems.id, dueStates.serviceItemId))
-    .leftJoin(
-      serviceTasks,
-      and(
-        eq(serviceTasks.bikeId, dueStates.bikeId),
-        eq(serviceTasks.serviceItemId, dueStates.serviceItemId),
-        inArray(serviceTasks.status, ['open', 'in_progress']),
-      ),
-    )
-    .leftJoin(assignee, eq(assignee.id, serviceTasks.assigneeId))
-    .where(and(...where))
-    .orderBy(desc(sql`${dueStates.status} = 'overdue'`), asc(dueStates.dueDate), asc(bikes.fleetNumber));
+  if (!f.all) where.push(sql`(d.status = 'overdue' or d.due_date <= ${addDaysIso(todayInZone('UTC', now), within + 1)})`);
+  const rows = await jsonRows<DueRow>(
+    db,
+    sql`select b.id as bike_id, b.fleet_number, b.site_id, s.name as site_name, s.time_zone, m.name as model_name,
+               i.id as item_id, i.name as item, i.category, i.safety_critical,
+               d.status, d.due_date, d.due_at_km, d.due_by_date, d.trigger, d.remaining_km, d.remaining_days,
+               d.usage_km_per_day, b.odometer_unit, d.baseline_date, b.status as bike_status,
+               t.id as task_id, u.id as assignee_id, u.name as assignee_name,
+               row_number() over (order by d.status = 'overdue' desc, d.due_date asc, b.fleet_number asc) as n
+          from due_states d
+          join bikes b on b.id = d.bike_id
+          join sites s on s.id = b.site_id
+          join bike_models m on m.id = b.model_id
+          join service_items i on i.id = d.service_item_id
+          left join lateral (select t.id, t.assignee_id from service_tasks t
+                              where t.bike_id = d.bike_id and t.service_item_id = d.service_item_id
+                                and t.status in ('open', 'in_progress')
+                              order by t.raised_at, t.id limit 1) t on true
+          left join users u on u.id = t.assignee_id
+         where ${sql.join(where, sql` and `)}`,
+    sql`q.n`,
+  );
 
+  const limits = new Map<string, string>();
+  const limitIn = (zone: string) => limits.get(zone) ?? limits.set(zone, addDaysIso(todayInZone(zone, now), within)).get(zone)!;
   const out: DueItem[] = [];
-  const seen = new Set<string>();
   for (const r of rows) {
-    const key = `${r.d.bikeId}:${r.d.serviceItemId}`;
-    if (seen.has(key)) continue;
-    seen.add(key);
-    if (!f.all && r.d.status !== 'overdue') {
-      const limit = addDaysIso(todayInZone(r.timeZone, now), f.within ?? 7);
-      if (!r.d.dueDate || r.d.dueDate > limit) continue;
-    }
-    const unit = r.bike.unit;
+    if (!f.all && r.status !== 'overdue' && (!r.due_date || r.due_date > limitIn(r.time_zone))) continue;
     out.push({
-      bikeId: r.bike.id,
-      fleetNumber: r.bike.fleetNumber,
-      siteId: r.bike.siteId,
-      siteName: r.siteName,
-      modelName: r.modelName,
-      itemId: r.item.id,
-      item: r.item.name,
-      category: r.item.category,
-      safetyCritical: r.item.safetyCritical,
-      status: r.d.status,
-      dueDate: r.d.dueDate,
-      dueAtKm: r.d.dueAtKm,
-      dueByDate: r.d.dueByDate,
-      trigger: r.d.trigger,
-      remainingKm: r.d.remainingKm,
-      remainingDays: r.d.remainingDays,
-      usageKmPerDay: r.d.usageKmPerDay,
-      odometerUnit: unit,
-      remainingInUnit: r.d.remainingKm == null ? null : fromKm(r.d.remainingKm, unit),
-      lastDoneDate: r.d.baselineDate,
-      bikeStatus: r.bike.status,
-      taskId: r.taskId,
-      assignee: r.assigneeId ? { id: r.assigneeId, name: r.assigneeName! } : null,
+      bikeId: r.bike_id,
+      fleetNumber: r.fleet_number,
+      siteId: r.site_id,
+      siteName: r.site_name,
+      modelName: r.model_name,
+      itemId: r.item_id,
+      item: r.item,
+      category: r.category,
+      safetyCritical: r.safety_critical,
+      status: r.status,
+      dueDate: r.due_date,
+      dueAtKm: r.due_at_km,
+      dueByDate: r.due_by_date,
+      trigger: r.trigger,
+      remainingKm: r.remaining_km,
+      remainingDays: r.remaining_days,
+      usageKmPerDay: r.usage_km_per_day,
+      odometerUnit: r.odometer_unit,
+      remainingInUnit: r.remaining_km == null ? null : fromKm(r.remaining_km, r.odometer_unit),
+      lastDoneDate: r.baseline_date,
+      bikeStatus: r.bike_status,
+      taskId: r.task_id,
+      assignee: r.assignee_id ? { id: r.assignee_id, name: r.assignee_name! } : null,
     });
   }
   return out;

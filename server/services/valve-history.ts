@@ -20,10 +20,11 @@ export async function readingsForBikes(db: DbOrTx, bikeIds: string[], siteIds?: 
     : sql`c.bike_id in (${sql.join(bikeIds.map((id) => sql`${id}`), sql`, `)})`;
   const rows = await jsonTuples<ReadingTuple>(
     db,
-    sql`select json_build_array(c.bike_id, c.date, c.odometer_km, r.cylinder, r.side, r.position, r.as_found_um, r.as_left_um, r.shim_before_um, r.shim_after_um) as a
+    sql`select json_build_array(c.bike_id, c.date, c.odometer_km, r.cylinder, r.side, r.position, r.as_found_um, r.as_left_um, r.shim_before_um, r.shim_after_um) as a,
+               c.odometer_km as km, c.date as day, r.cylinder, r.side, r.position
           from valve_readings r join valve_checks c on c.id = r.check_id
-         where ${scope}
-         order by c.odometer_km, c.date, r.cylinder, r.side, r.position`,
+         where ${scope}`,
+    sql`q.km, q.day, q.cylinder, q.side, q.position`,
   );
   for (const [bikeId, date, odometerKm, cylinder, side, position, asFoundUm, asLeftUm, shimBeforeUm, shimAfterUm] of rows) {
     const list = by.get(bikeId) ?? [];

@@ -1,0 +1,86 @@
+import { createHash } from 'node:crypto';
+import type { Request, Response } from 'express';
+import { LRUCache } from 'lru-cache';
+import { sql } from 'drizzle-orm';
+import type { Db } from '../db/client';
+
+/** A cached answer: the JSON body as sent, and the data version it was read at. */
+interface Entry {
+  version: number;
+  body: string;
+  etag: string;
+}
+
+export interface CachedAnswer {
+  body: string;
+  etag: string;
+  hit: boolean;
+}
+
+/**
+ * Answers of heavy fleet-wide reads (the due list, valve warnings) kept as JSON text, each valid
+ * while the database's fleet data version has not moved. The version is read first, then the data:
+ * a write that commits in between only makes the entry look older than it is, never newer, so a
+ * stale answer is never served. Concurrent misses for one key share one computation.
+ */
+export class ReadCache {
+  private readonly entries: LRUCache<string, Entry>;
+  private readonly pending = new Map<string, Promise<Entry>>();
+
+  constructor(
+    private readonly db: Db,
+    opts: { maxBytes?: number } = {},
+  ) {
+    this.entries = new LRUCache<string, Entry>({ maxSize: opts.maxBytes ?? 32 * 1024 * 1024, sizeCalculation: (e) => e.body.length * 2 + 200 });
+  }
+
+  async version(): Promise<number> {
+    const { rows } = (await this.db.execute(sql`select n from data_versions where scope = 'fleet'`)) as unknown as { rows: { n: number | string }[] };
+    // No row (a database restored from outside the app): nothing can be trusted, so nothing is cached.
+    return rows.length ? Number(rows[0].n) : Number.NaN;
+  }
+
+  async get(key: string, compute: () => Promise<unknown>): Promise<CachedAnswer> {
+    const version = await this.version();
+    const held = this.entries.get(key);
+    if (held && held.version === version) return { body: held.body, etag: held.etag, hit: true };
+    const flightKey = `${version}\n${key}`;
+    let flight = this.pending.get(flightKey);
+    if (!flight) {
+      flight = (async () => {
+        const body = JSON.stringify(await compute());
+        const entry = { version, body, etag: `W/"${createHash('sha1').update(body).digest('base64url')}"` };
+        if (!Number.isNaN(version)) this.entries.set(key, entry);
+        return entry;
+      })().finally(() => this.pending.delete(flightKey));
+      this.pending.set(flightKey, flight);
+    }
+    const e = await flight;
+    return { body: e.body, etag: e.etag, hit: false };
+  }
+
+  /**
+   * The key of an answer for one person's sites and query at this moment: time is in quarter hours,
+   * the step every time zone's midnight falls on, so "today" in any zone cannot change under a key.
+   */
+  static key(kind: string, siteIds: string[], query: unknown, now: Date) {
+    return `${kind}\n${[...siteIds].sort().join(',')}\n${JSON.stringify(query ?? null)}\n${Math.floor(now.getTime() / 900_000)}`;
+  }
+
+  clear() {
+    this.entries.clear();
+  }
+
+  /**
+   * Sends a cached JSON answer, or 304 when the browser already holds this very body. Private to
+   * the signed-in person (the key carries their sites); the browser asks again every time.
+   */
+  async send(req: Request, res: Response, key: string, compute: () => Promise<unknown>) {
+    const a = await this.get(key, compute);
+    res.setHeader('Cache-Control', 'private, no-cache');
+    res.setHeader('ETag', a.etag);
+    res.setHeader('X-Lashline-Cache', a.hit ? 'hit' : 'miss');
+    if (req.headers['if-none-match'] === a.etag) return res.status(304).end();
+    res.type('application/json').send(a.body);
+  }
+}

@@ -1,0 +1,114 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { eq, sql } from 'drizzle-orm';
+import { agent, manualClock, testApp, type Agent, type TestContext } from '../support/test-app';
+import { PASSWORD, makeBike, makeServiceItem, world } from '../support/factories';
+import { ReadCache } from '../../server/cache/read-cache';
+import { dueStates, sites } from '../../server/db/schema';
+
+const clock = manualClock('2026-06-15T18:00:00Z');
+let t: TestContext;
+let w: Awaited<ReturnType<typeof world>>;
+let bike: { id: string; fleetNumber: string };
+const as: Record<string, Agent> = {};
+
+beforeAll(async () => {
+  t = await testApp({ now: clock.now });
+  w = await world(t.database.db);
+  await makeServiceItem(t.database.db, w.model.id, { name: 'Engine oil', everyKm: 5000, everyMonths: 6 });
+  bike = await makeBike(t.database.db, w.model.id, w.siteA.id, { inServiceDate: '2025-12-20' });
+  for (const role of ['manager', 'technician', 'technicianB'] as const) {
+    as[role] = await agent(t.app);
+    await as[role].login(w.people[role].email, PASSWORD);
+  }
+  // First check-in: the bike's states are computed; the oil falls due by the calendar on 20 June, so it is soon.
+  expect((await as.manager.post(`/api/bikes/${bike.id}/check-ins`).send({ odometer: 4990 })).status).toBe(201);
+});
+afterAll(() => t.close());
+
+const oilOf = (body: { items: { bikeId: string; item: string; status: string }[] }) => body.items.find((i) => i.bikeId === bike.id && i.item === 'Engine oil');
+
+describe('cached due list', () => {
+  it('answers a repeat from the cache, and 304 when the browser holds the same body', async () => {
+    const first = await as.manager.get('/api/due?within=7');
+    expect(first.status).toBe(200);
+    expect(oilOf(first.body)?.status).toBe('soon');
+    const again = await as.manager.get('/api/due?within=7');
+    expect(again.headers['x-lashline-cache']).toBe('hit');
+    expect(again.body).toEqual(first.body);
+    const etag = again.headers.etag;
+    expect(etag).toMatch(/^W\/"/);
+    const unchanged = await as.manager.raw.get('/api/due?within=7').set('If-None-Match', etag);
+    expect(unchanged.status).toBe(304);
+    expect(unchanged.text).toBe('');
+  });
+
+  it('shows a check-in at once: the write moves the data version on', async () => {
+    await as.manager.get('/api/due?within=7');
+    expect((await as.manager.post(`/api/bikes/${bike.id}/check-ins`).send({ odometer: 5010 })).status).toBe(201);
+    const after = await as.manager.get('/api/due?within=7');
+    expect(after.headers['x-lashline-cache']).toBe('miss');
+    expect(oilOf(after.body)?.status).toBe('overdue');
+  });
+
+  it('sees a change written straight to the database, outside the app (another instance, an import)', async () => {
+    await as.manager.get('/api/due?within=7');
+    await t.database.db.update(dueStates).set({ status: 'soon' }).where(eq(dueStates.bikeId, bike.id));
+    const after = await as.manager.get('/api/due?within=7');
+    expect(after.headers['x-lashline-cache']).toBe('miss');
+    expect(oilOf(after.body)?.status).toBe('soon');
+    // Put it back as the app computed it.
+    expect((await as.manager.post(`/api/bikes/${bike.id}/check-ins`).send({ odometer: 5020 })).status).toBe(201);
+  });
+
+  it("keeps one person's answer from another with other sites", async () => {
+    const a = await as.technician.get('/api/due?within=7');
+    const b = await as.technicianB.get('/api/due?within=7');
+    expect(oilOf(a.body)).toBeDefined();
+    expect(oilOf(b.body)).toBeUndefined();
+    expect(b.body.items.every((i: { siteId: string }) => i.siteId === w.siteB.id)).toBe(true);
+  });
+
+  it('moves to the next day when the clock passes a site’s midnight, with no write at all', async () => {
+    const before = await as.manager.get('/api/due?within=7');
+    // 23:30 UTC is 00:30 on 16 June in London (BST): a new day at the site, no data changed.
+    clock.set('2026-06-15T23:30:00Z');
+    const after = await as.manager.get('/api/due?within=7');
+    expect(after.headers['x-lashline-cache']).toBe('miss');
+    expect(after.body.today).not.toBe(before.body.today);
+    clock.set('2026-06-15T18:00:00Z');
+  });
+});
+
+describe('data version', () => {
+  it('moves on in the writing transaction, and not when a transaction rolls back', async () => {
+    const cache = new ReadCache(t.database.db);
+    const v0 = await cache.version();
+    await t.database.db.update(sites).set({ name: 'Renamed depot' }).where(eq(sites.id, w.siteB.id));
+    const v1 = await cache.version();
+    expect(v1).toBeGreaterThan(v0);
+    await expect(
+      t.database.db.transaction(async (tx) => {
+        await tx.update(sites).set({ name: 'Never' }).where(eq(sites.id, w.siteB.id));
+        throw new Error('roll back');
+      }),
+    ).rejects.toThrow('roll back');
+    expect(await cache.version()).toBe(v1);
+  });
+
+  it('computes a missed answer once for many requests at the same moment', async () => {
+    const cache = new ReadCache(t.database.db);
+    let runs = 0;
+    const compute = async () => {
+      runs++;
+      await new Promise((r) => setTimeout(r, 20));
+      return { runs };
+    };
+    const answers = await Promise.all(Array.from({ length: 10 }, () => cache.get('k', compute)));
+    expect(runs).toBe(1);
+    expect(new Set(answers.map((a) => a.body))).toEqual(new Set(['{"runs":1}']));
+    expect((await cache.get('k', compute)).hit).toBe(true);
+    await t.database.db.execute(sql`update sites set name = name`);
+    expect((await cache.get('k', compute)).hit).toBe(false);
+    expect(runs).toBe(2);
+  });
+});
