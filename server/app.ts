@@ -127,7 +127,7 @@ export function createApp(deps: AppDeps): Express {
     }),
   );
   api.use(sessionLifetime(ctx));
-  const passport = createPassport(database.db);
+  const passport = createPassport(database.db, ctx.readCache);
   api.use(passport.initialize());
   api.use(passport.session());
   api.use(refuseCrossSite);

@@ -1,13 +1,16 @@
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
+import type { Request } from 'express';
 import type { Db } from '../db/client';
+import type { ReadCache } from '../cache/read-cache';
+import type { SessionUser } from '../../shared/schemas/auth';
 import { findUserByEmail, loadSessionUser } from '../services/users';
 import { verifyPassword } from './passwords';
 
 export const SIGN_IN_REFUSED = 'That e-mail and password do not match an active account. Check both and try again.';
 
 /** A passport instance of this app's own (tests build several apps in one process). */
-export function createPassport(db: Db) {
+export function createPassport(db: Db, cache: ReadCache) {
   const p = new passport.Passport();
   p.use(
     new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
@@ -20,8 +23,11 @@ export function createPassport(db: Db) {
     }),
   );
   p.serializeUser((user, done) => done(null, user.id));
-  p.deserializeUser((id: string, done) => {
-    loadSessionUser(db, id).then((u) => done(null, u ?? false), done);
+  // Every request loads its person: from the read cache while no user, site or role has changed.
+  p.deserializeUser((req: Request, id: string, done: (err: unknown, user?: SessionUser | false) => void) => {
+    cache
+      .get(`session-user\n${id}`, () => loadSessionUser(db, id), req)
+      .then((a) => done(null, (JSON.parse(a.body) as SessionUser | null) ?? false), done);
   });
   return p;
 }

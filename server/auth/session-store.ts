@@ -1,13 +1,22 @@
 import { eq, lt } from 'drizzle-orm';
 import session from 'express-session';
+import { LRUCache } from 'lru-cache';
 import type { Db } from '../db/client';
 import { sessions } from '../db/schema';
 
 type Callback = (err?: unknown, value?: unknown) => void;
 const DEFAULT_TTL_MS = 30 * 60_000;
+/**
+ * A busy screen sends several requests a second; the stored expiry moves on at most once a minute
+ * per session, so a session ends between 29 and 30 idle minutes after its last request.
+ */
+export const TOUCH_EVERY_MS = 60_000;
 
 /** Sessions in the database (same schema on PGlite and PostgreSQL), so every app instance sees them. */
 export class DbSessionStore extends session.Store {
+  /** When this process last wrote each session's expiry. */
+  private readonly touched = new LRUCache<string, number>({ max: 100_000 });
+
   constructor(private readonly db: Db) {
     super();
   }
@@ -32,6 +41,7 @@ export class DbSessionStore extends session.Store {
 
   override set(sid: string, sess: session.SessionData, cb?: Callback) {
     const row = { sid, sess, expire: this.expiry(sess), userId: DbSessionStore.userId(sess) };
+    this.touched.set(sid, Date.now());
     this.db
       .insert(sessions)
       .values(row)
@@ -40,6 +50,10 @@ export class DbSessionStore extends session.Store {
   }
 
   override touch(sid: string, sess: session.SessionData, cb?: Callback) {
+    const now = Date.now();
+    const last = this.touched.get(sid);
+    if (last !== undefined && now - last < TOUCH_EVERY_MS) return cb?.();
+    this.touched.set(sid, now);
     this.db
       .update(sessions)
       .set({ expire: this.expiry(sess) })
@@ -48,6 +62,7 @@ export class DbSessionStore extends session.Store {
   }
 
   override destroy(sid: string, cb?: Callback) {
+    this.touched.delete(sid);
     this.db
       .delete(sessions)
       .where(eq(sessions.sid, sid))

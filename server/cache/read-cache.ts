@@ -26,6 +26,8 @@ export interface CachedAnswer {
 export class ReadCache {
   private readonly entries: LRUCache<string, Entry>;
   private readonly pending = new Map<string, Promise<Entry>>();
+  /** The version read once per request: every cached read in it is checked against that one read. */
+  private readonly perRequest = new WeakMap<object, Promise<number>>();
 
   constructor(
     private readonly db: Db,
@@ -40,8 +42,22 @@ export class ReadCache {
     return rows.length ? Number(rows[0].n) : Number.NaN;
   }
 
-  async get(key: string, compute: () => Promise<unknown>): Promise<CachedAnswer> {
-    const version = await this.version();
+  /**
+   * The version for one request, read on its first use. Safe for the reads of a request that has
+   * not written yet (data read after the version is at least as new); a request that writes must not
+   * read its own changes through the cache.
+   */
+  versionFor(req: object): Promise<number> {
+    let v = this.perRequest.get(req);
+    if (!v) {
+      v = this.version();
+      this.perRequest.set(req, v);
+    }
+    return v;
+  }
+
+  async get(key: string, compute: () => Promise<unknown>, req?: object): Promise<CachedAnswer> {
+    const version = await (req ? this.versionFor(req) : this.version());
     const held = this.entries.get(key);
     if (held && held.version === version) return { body: held.body, etag: held.etag, hit: true };
     const flightKey = `${version}\n${key}`;
@@ -76,7 +92,7 @@ export class ReadCache {
    * the signed-in person (the key carries their sites); the browser asks again every time.
    */
   async send(req: Request, res: Response, key: string, compute: () => Promise<unknown>) {
-    const a = await this.get(key, compute);
+    const a = await this.get(key, compute, req);
     res.setHeader('Cache-Control', 'private, no-cache');
     res.setHeader('ETag', a.etag);
     res.setHeader('X-Lashline-Cache', a.hit ? 'hit' : 'miss');

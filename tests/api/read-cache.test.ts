@@ -1,9 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { eq, sql } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import { agent, manualClock, testApp, type Agent, type TestContext } from '../support/test-app';
 import { PASSWORD, makeBike, makeServiceItem, world } from '../support/factories';
 import { ReadCache } from '../../server/cache/read-cache';
-import { dueStates, sites } from '../../server/db/schema';
+import { dueStates, sites, userSites } from '../../server/db/schema';
 
 const clock = manualClock('2026-06-15T18:00:00Z');
 let t: TestContext;
@@ -76,6 +76,17 @@ describe('cached due list', () => {
     expect(after.headers['x-lashline-cache']).toBe('miss');
     expect(after.body.today).not.toBe(before.body.today);
     clock.set('2026-06-15T18:00:00Z');
+  });
+});
+
+describe('cached session person', () => {
+  it("sees a change to a person's sites on their next request", async () => {
+    const me = async (): Promise<string[]> => (await as.technician.get('/api/auth/me')).body.user.siteIds;
+    expect(await me()).toEqual([w.siteA.id]);
+    await t.database.db.insert(userSites).values({ userId: w.people.technician.id, siteId: w.siteB.id });
+    expect([...(await me())].sort()).toEqual([w.siteA.id, w.siteB.id].sort());
+    await t.database.db.delete(userSites).where(and(eq(userSites.userId, w.people.technician.id), eq(userSites.siteId, w.siteB.id)));
+    expect(await me()).toEqual([w.siteA.id]);
   });
 });
 

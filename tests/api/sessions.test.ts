@@ -37,6 +37,16 @@ describe('sessions (OWASP ASVS 5.0 V7)', () => {
     expect((await a.get('/api/auth/me')).status).toBe(401);
   });
 
+  it('moves the stored expiry on at most once a minute, however many requests come', async () => {
+    const a = await agent(t.app);
+    await a.login(w.people.technician.email, PASSWORD);
+    const stored = async () => (await t.database.db.select().from(sessions).where(eq(sessions.userId, w.people.technician.id)))[0].expire.getTime();
+    const atSignIn = await stored();
+    for (let i = 0; i < 5; i++) expect((await a.get('/api/auth/me')).status).toBe(200);
+    // Within the minute after the sign-in wrote it, no request rewrites the row.
+    expect(await stored()).toBe(atSignIn);
+  });
+
   it('ends a session after 12 hours however active it was (V7.3.2)', async () => {
     const a = await agent(t.app);
     await a.login(w.people.manager.email, PASSWORD);
