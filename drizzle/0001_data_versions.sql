@@ -3,50 +3,50 @@ CREATE TABLE "data_versions" (
 	"n" bigint DEFAULT 0 NOT NULL
 );
 --> statement-breakpoint
-INSERT INTO "data_versions" ("scope", "n") VALUES ('fleet', 1);
+INSERT INTO "data_versions" ("scope", "n") VALUES ('fleet', 1), ('people', 1);
 --> statement-breakpoint
-CREATE FUNCTION "lashline_fleet_changed"() RETURNS trigger LANGUAGE plpgsql AS $$
+CREATE FUNCTION "lashline_data_changed"() RETURNS trigger LANGUAGE plpgsql AS $$
 BEGIN
-  -- Moves the fleet's data version on in the writing transaction; cached reads compare against it.
-  UPDATE "data_versions" SET "n" = "n" + 1 WHERE "scope" = 'fleet';
+  -- Moves the named data versions on in the writing transaction; cached reads compare against them.
+  UPDATE "data_versions" SET "n" = "n" + 1 WHERE "scope" = ANY (TG_ARGV);
   RETURN NULL;
 END
 $$;
 --> statement-breakpoint
-CREATE TRIGGER "attachments_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "attachments" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "attachments_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "attachments" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "bike_models_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "bike_models" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "bike_models_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "bike_models" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "bikes_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "bikes" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "bikes_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "bikes" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "defects_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "defects" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "defects_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "defects" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "due_states_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "due_states" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "due_states_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "due_states" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "odometer_readings_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "odometer_readings" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "odometer_readings_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "odometer_readings" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "reading_templates_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "reading_templates" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "reading_templates_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "reading_templates" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "service_items_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_items" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "service_items_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_items" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "service_readings_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_readings" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "service_readings_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_readings" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "service_records_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_records" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "service_records_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_records" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "service_tasks_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_tasks" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "service_tasks_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_tasks" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "settings_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "settings" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "settings_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "settings" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "shim_stock_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "shim_stock" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "shim_stock_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "shim_stock" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "sites_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "sites" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "sites_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "sites" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'people');
 --> statement-breakpoint
-CREATE TRIGGER "stock_movements_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "stock_movements" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "stock_movements_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "stock_movements" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "user_sites_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "user_sites" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "user_sites_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "user_sites" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'people');
 --> statement-breakpoint
-CREATE TRIGGER "users_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "users" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "users_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "users" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'people');
 --> statement-breakpoint
-CREATE TRIGGER "valve_checks_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "valve_checks" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "valve_checks_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "valve_checks" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "valve_readings_fleet_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "valve_readings" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_fleet_changed"();
+CREATE TRIGGER "valve_readings_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "valve_readings" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');

@@ -23,11 +23,11 @@ export function createPassport(db: Db, cache: ReadCache) {
     }),
   );
   p.serializeUser((user, done) => done(null, user.id));
-  // Every request loads its person: from the read cache while no user, site or role has changed.
+  // Every request loads its person: from the read cache while no person, site or role has changed.
   p.deserializeUser((req: Request, id: string, done: (err: unknown, user?: SessionUser | false) => void) => {
     cache
-      .get(`session-user\n${id}`, () => loadSessionUser(db, id), req)
-      .then((a) => done(null, (JSON.parse(a.body) as SessionUser | null) ?? false), done);
+      .get(`session-user\n${id}`, () => loadSessionUser(db, id), { req, scope: 'people' })
+      .then((a) => done(null, (JSON.parse(a.body.toString()) as SessionUser | null) ?? false), done);
   });
   return p;
 }

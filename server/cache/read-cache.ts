@@ -4,15 +4,18 @@ import { LRUCache } from 'lru-cache';
 import { sql } from 'drizzle-orm';
 import type { Db } from '../db/client';
 
-/** A cached answer: the JSON body as sent, and the data version it was read at. */
+/** A cached answer: the JSON body as the bytes sent, and the data version it was read at. */
+/** 'fleet' moves on with any write to the fleet's data; 'people' only with people, their sites and the sites. */
+export type DataScope = 'fleet' | 'people';
+
 interface Entry {
   version: number;
-  body: string;
+  body: Buffer;
   etag: string;
 }
 
 export interface CachedAnswer {
-  body: string;
+  body: Buffer;
   etag: string;
   hit: boolean;
 }
@@ -27,17 +30,17 @@ export class ReadCache {
   private readonly entries: LRUCache<string, Entry>;
   private readonly pending = new Map<string, Promise<Entry>>();
   /** The version read once per request: every cached read in it is checked against that one read. */
-  private readonly perRequest = new WeakMap<object, Promise<number>>();
+  private readonly perRequest = new WeakMap<object, Map<DataScope, Promise<number>>>();
 
   constructor(
     private readonly db: Db,
     opts: { maxBytes?: number } = {},
   ) {
-    this.entries = new LRUCache<string, Entry>({ maxSize: opts.maxBytes ?? 32 * 1024 * 1024, sizeCalculation: (e) => e.body.length * 2 + 200 });
+    this.entries = new LRUCache<string, Entry>({ maxSize: opts.maxBytes ?? 32 * 1024 * 1024, sizeCalculation: (e) => e.body.length + 200 });
   }
 
-  async version(): Promise<number> {
-    const { rows } = (await this.db.execute(sql`select n from data_versions where scope = 'fleet'`)) as unknown as { rows: { n: number | string }[] };
+  async version(scope: DataScope = 'fleet'): Promise<number> {
+    const { rows } = (await this.db.execute(sql`select n from data_versions where scope = ${scope}`)) as unknown as { rows: { n: number | string }[] };
     // No row (a database restored from outside the app): nothing can be trusted, so nothing is cached.
     return rows.length ? Number(rows[0].n) : Number.NaN;
   }
@@ -47,24 +50,25 @@ export class ReadCache {
    * not written yet (data read after the version is at least as new); a request that writes must not
    * read its own changes through the cache.
    */
-  versionFor(req: object): Promise<number> {
-    let v = this.perRequest.get(req);
-    if (!v) {
-      v = this.version();
-      this.perRequest.set(req, v);
-    }
+  versionFor(req: object, scope: DataScope = 'fleet'): Promise<number> {
+    let byScope = this.perRequest.get(req);
+    if (!byScope) this.perRequest.set(req, (byScope = new Map()));
+    let v = byScope.get(scope);
+    if (!v) byScope.set(scope, (v = this.version(scope)));
     return v;
   }
 
-  async get(key: string, compute: () => Promise<unknown>, req?: object): Promise<CachedAnswer> {
-    const version = await (req ? this.versionFor(req) : this.version());
+  async get(key: string, compute: () => Promise<unknown>, opts: { req?: object; scope?: DataScope } = {}): Promise<CachedAnswer> {
+    const scope = opts.scope ?? 'fleet';
+    const version = await (opts.req ? this.versionFor(opts.req, scope) : this.version(scope));
+    key = `${scope}\n${key}`;
     const held = this.entries.get(key);
     if (held && held.version === version) return { body: held.body, etag: held.etag, hit: true };
     const flightKey = `${version}\n${key}`;
     let flight = this.pending.get(flightKey);
     if (!flight) {
       flight = (async () => {
-        const body = JSON.stringify(await compute());
+        const body = Buffer.from(JSON.stringify(await compute()));
         const entry = { version, body, etag: `W/"${createHash('sha1').update(body).digest('base64url')}"` };
         if (!Number.isNaN(version)) this.entries.set(key, entry);
         return entry;
@@ -92,7 +96,7 @@ export class ReadCache {
    * the signed-in person (the key carries their sites); the browser asks again every time.
    */
   async send(req: Request, res: Response, key: string, compute: () => Promise<unknown>) {
-    const a = await this.get(key, compute, req);
+    const a = await this.get(key, compute, { req });
     res.setHeader('Cache-Control', 'private, no-cache');
     res.setHeader('ETag', a.etag);
     res.setHeader('X-Lashline-Cache', a.hit ? 'hit' : 'miss');
