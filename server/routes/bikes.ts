@@ -20,7 +20,7 @@ import { audit, diff } from '../audit';
 import { badRequest, conflict, forbidden, notFound } from '../http-error';
 import { fleetNumberTaken, getBike, listBikes, readingsOf } from '../services/bikes';
 import { recordCheckIn } from '../services/check-in';
-import { listDue } from '../services/due-list';
+import { dueItemsFromComputed, listDue } from '../services/due-list';
 import { rideVerdict } from '../services/ride-check';
 import { bikeTimeline } from '../services/timeline';
 import { CheckInSchema, type CheckIn } from '../../shared/schemas/due';
@@ -67,9 +67,9 @@ export function bikeRoutes(ctx: AppContext) {
     async (req, res) => {
       const user = currentUser(req);
       const { id } = req.valid.params as { id: string };
-      const { reading, grounded, defectId } = await recordCheckIn(db, user, id, req.valid.body as CheckIn, ctx.now());
+      const { reading, grounded, defectId, computed } = await recordCheckIn(db, user, id, req.valid.body as CheckIn, ctx.now());
       const bike = (await getBike(db, user.siteIds, id))!;
-      const due = await listDue(db, [bike.site.id], { bikeId: id, all: true }, ctx.now());
+      const due = await dueItemsFromComputed(db, bike, computed);
       res.status(201).json({
         reading: { id: reading.id, date: reading.date, value: reading.value, unit: reading.unit, odometerKm: reading.odometerKm, reset: reading.reset },
         bike,

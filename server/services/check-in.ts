@@ -94,8 +94,8 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
         grounded = true;
       }
     }
-    const { report } = await recomputeBike(tx, bikeId, now);
-    return { reading, grounded, defectId, report };
+    const { report, computed } = await recomputeBike(tx, bikeId, now);
+    return { reading, grounded, defectId, report, computed };
   });
 }
 

@@ -1,6 +1,8 @@
 import { sql, type SQL } from 'drizzle-orm';
 import type { DbOrTx } from '../db/client';
-import { jsonRows } from '../db/json-rows';
+import { jsonRows, jsonTuples } from '../db/json-rows';
+import type { ComputedDue } from './due';
+import type { BikeSummary } from '../../shared/schemas/bikes';
 import type { DueItem, DueQuery } from '../../shared/schemas/due';
 import type { DueStatus } from '../../shared/domain/due';
 import type { OdometerUnit } from '../../shared/domain/units';
@@ -44,7 +46,7 @@ const ids = (list: string[]) => sql.join(list.map((id) => sql`${id}`), sql`, `);
 
 /**
  * The stored due states as the screens list them: overdue first, then by due date, then fleet
- * number; with the open task (the oldest, if there are two) and who has it.
+ * number (then item, by id, to make the order total); with the open task (the oldest, if there are two) and who has it.
  */
 export async function listDue(db: DbOrTx, siteIds: string[], f: DueFilter, now: Date): Promise<DueItem[]> {
   if (!siteIds.length) return [];
@@ -64,7 +66,7 @@ export async function listDue(db: DbOrTx, siteIds: string[], f: DueFilter, now: 
                d.status, d.due_date, d.due_at_km, d.due_by_date, d.trigger, d.remaining_km, d.remaining_days,
                d.usage_km_per_day, b.odometer_unit, d.baseline_date, b.status as bike_status,
                t.id as task_id, u.id as assignee_id, u.name as assignee_name,
-               row_number() over (order by d.status = 'overdue' desc, d.due_date asc, b.fleet_number asc) as n
+               row_number() over (order by d.status = 'overdue' desc, d.due_date asc, b.fleet_number asc, d.service_item_id asc) as n
           from due_states d
           join bikes b on b.id = d.bike_id
           join sites s on s.id = b.site_id
@@ -112,3 +114,55 @@ export async function listDue(db: DbOrTx, siteIds: string[], f: DueFilter, now: 
   }
   return out;
 }
+
+/**
+ * One bike's due items straight from the computation just stored (a check-in's answer), in
+ * listDue's order and shape, without reading the states back: only its open tasks are read.
+ */
+export async function dueItemsFromComputed(db: DbOrTx, bike: BikeSummary, computed: ComputedDue[]): Promise<DueItem[]> {
+  const tasks = new Map<string, { id: string; assigneeId: string | null; assigneeName: string | null }>();
+  const open = await jsonTuples<[string, string, string | null, string | null]>(
+    db,
+    sql`select json_build_array(t.service_item_id, t.id, u.id, u.name) as a, t.raised_at, t.id
+          from service_tasks t left join users u on u.id = t.assignee_id
+         where t.bike_id = ${bike.id} and t.status in ('open', 'in_progress')`,
+    sql`q.raised_at desc, q.id desc`,
+  );
+  // Latest first, so the oldest open task of an item is the one kept, as in listDue.
+  for (const [itemId, id, assigneeId, assigneeName] of open) tasks.set(itemId, { id, assigneeId, assigneeName });
+  const rank = (c: ComputedDue) => (c.result.status === 'overdue' ? 0 : 1);
+  const ordered = computed
+    .filter((c) => c.bikeId === bike.id)
+    .sort((a, b) => rank(a) - rank(b) || compareDue(a.result.dueDate, b.result.dueDate) || (a.item.id < b.item.id ? -1 : a.item.id > b.item.id ? 1 : 0));
+  return ordered.map(({ item, result: r }) => {
+    const task = tasks.get(item.id);
+    return {
+      bikeId: bike.id,
+      fleetNumber: bike.fleetNumber,
+      siteId: bike.site.id,
+      siteName: bike.site.name,
+      modelName: bike.model.name,
+      itemId: item.id,
+      item: item.name,
+      category: item.category,
+      safetyCritical: item.safetyCritical,
+      status: r.status,
+      dueDate: r.dueDate,
+      dueAtKm: r.dueAtKm,
+      dueByDate: r.dueByDate,
+      trigger: r.trigger,
+      remainingKm: r.remainingKm,
+      remainingDays: r.remainingDays,
+      usageKmPerDay: r.usageKmPerDay,
+      odometerUnit: bike.odometerUnit,
+      remainingInUnit: r.remainingKm == null ? null : fromKm(r.remainingKm, bike.odometerUnit),
+      lastDoneDate: r.baseline.date,
+      bikeStatus: bike.status,
+      taskId: task?.id ?? null,
+      assignee: task?.assigneeId ? { id: task.assigneeId, name: task.assigneeName! } : null,
+    };
+  });
+}
+
+/** SQL's ascending order of dates, nulls last. */
+const compareDue = (a: string | null, b: string | null) => (a === b ? 0 : a === null ? 1 : b === null ? -1 : a < b ? -1 : 1);

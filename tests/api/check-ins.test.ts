@@ -35,6 +35,17 @@ describe('POST /api/bikes/:id/check-ins', () => {
     expect(res.body.ride).toEqual({ mayRide: true, reasons: [] });
   });
 
+  it("answers with the same due items, tasks and order as the bike's own page", async () => {
+    const other = await makeBike(t.database.db, w.model.id, w.siteA.id, { inServiceDate: '2026-01-10' });
+    // 3,100 km: the brake check (every 3,000 km) is overdue and gets a task; the oil is soon or fine.
+    const res = await as.desk.post(`/api/bikes/${other.id}/check-ins`).send({ odometer: 3100, date: '2026-06-10' });
+    expect(res.status).toBe(201);
+    const page = await as.manager.get(`/api/bikes/${other.id}`);
+    expect(res.body.due).toEqual(page.body.due);
+    expect(res.body.due[0]).toMatchObject({ item: 'Brake check', status: 'overdue' });
+    expect(res.body.due[0].taskId).toBeTruthy();
+  });
+
   it('refuses an odometer lower than the last, showing the last value, and stores nothing', async () => {
     const before = await readingsOf(bike.id);
     const res = await as.desk.post(`/api/bikes/${bike.id}/check-ins`).send({ odometer: 1100 });
