@@ -1,3 +1,4 @@
+import compression from 'compression';
 import express, { type Express } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
@@ -107,6 +108,9 @@ export function createApp(deps: AppDeps): Express {
       strictTransportSecurity: config.COOKIE_SECURE,
     }),
   );
+  // gzip for the client's files and the larger answers (the fleet register is about 1 MB of JSON at
+  // 2,000 bikes, a tenth of that compressed); cached answers bring their own compressed copy.
+  app.use(compression());
 
   const api = express.Router();
   api.use(express.json({ limit: '1mb' }));

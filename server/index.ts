@@ -106,6 +106,10 @@ function serveBuiltClient(app: Express) {
     console.warn('No client build in dist/: run `npm run build` first. The API still answers under /api.');
     return;
   }
+  // Vite names built files by their content hash: a browser may keep them for good.
+  app.use('/assets', express.static(`${dist}/assets`, { index: false, immutable: true, maxAge: '365d' }));
+  // A file an older page asks for after an update: say it is gone rather than send the page.
+  app.use('/assets', (_req, res) => res.status(404).type('text/plain').send('Not found: reload the page to get the current version.'));
   app.use(express.static(dist, { index: false, maxAge: '1h' }));
   app.get('/{*splat}', (_req, res) => res.sendFile(`${dist}/index.html`));
 }

@@ -1,4 +1,6 @@
 import { createHash } from 'node:crypto';
+import { promisify } from 'node:util';
+import { gzip } from 'node:zlib';
 import type { Request, Response } from 'express';
 import { LRUCache } from 'lru-cache';
 import { sql } from 'drizzle-orm';
@@ -12,12 +14,15 @@ interface Entry {
   version: number;
   body: Buffer;
   etag: string;
+  /** The body gzipped, made on the first request that accepts it. */
+  gzipped?: Promise<Buffer>;
 }
 
 export interface CachedAnswer {
   body: Buffer;
   etag: string;
   hit: boolean;
+  gzipped: () => Promise<Buffer>;
 }
 
 /**
@@ -63,7 +68,7 @@ export class ReadCache {
     const version = await (opts.req ? this.versionFor(opts.req, scope) : this.version(scope));
     key = `${scope}\n${key}`;
     const held = this.entries.get(key);
-    if (held && held.version === version) return { body: held.body, etag: held.etag, hit: true };
+    if (held && held.version === version) return answer(held, true);
     const flightKey = `${version}\n${key}`;
     let flight = this.pending.get(flightKey);
     if (!flight) {
@@ -75,8 +80,7 @@ export class ReadCache {
       })().finally(() => this.pending.delete(flightKey));
       this.pending.set(flightKey, flight);
     }
-    const e = await flight;
-    return { body: e.body, etag: e.etag, hit: false };
+    return answer(await flight, false);
   }
 
   /**
@@ -100,7 +104,19 @@ export class ReadCache {
     res.setHeader('Cache-Control', 'private, no-cache');
     res.setHeader('ETag', a.etag);
     res.setHeader('X-Lashline-Cache', a.hit ? 'hit' : 'miss');
+    res.setHeader('Vary', 'Accept-Encoding');
     if (req.headers['if-none-match'] === a.etag) return res.status(304).end();
-    res.type('application/json').send(a.body);
+    res.type('application/json');
+    if (a.body.length > 1024 && req.acceptsEncodings('gzip', 'identity') === 'gzip') {
+      res.setHeader('Content-Encoding', 'gzip');
+      return res.send(await a.gzipped());
+    }
+    res.send(a.body);
   }
+}
+
+const gzipAsync = promisify(gzip);
+
+function answer(e: Entry, hit: boolean): CachedAnswer {
+  return { body: e.body, etag: e.etag, hit, gzipped: () => (e.gzipped ??= gzipAsync(e.body)) };
 }

@@ -42,6 +42,26 @@ describe('cached due list', () => {
     expect(unchanged.text).toBe('');
   });
 
+  it('sends the cached answer gzipped to a browser that accepts it, the same once unpacked', async () => {
+    // A few more bikes due soon, so that the answer is worth compressing (over 1 KB).
+    for (let i = 0; i < 4; i++) {
+      const b = await makeBike(t.database.db, w.model.id, w.siteA.id, { inServiceDate: '2025-12-20' });
+      expect((await as.manager.post(`/api/bikes/${b.id}/check-ins`).send({ odometer: 100 + i })).status).toBe(201);
+    }
+    const plain = await as.manager.raw.get('/api/due?within=7').set('Accept-Encoding', 'identity');
+    expect(plain.text.length).toBeGreaterThan(1024);
+    expect(plain.headers['content-encoding']).toBeUndefined();
+    const packed = await as.manager.raw.get('/api/due?within=7').set('Accept-Encoding', 'gzip, deflate, br');
+    expect(packed.headers['content-encoding']).toBe('gzip');
+    expect(packed.headers.vary).toMatch(/Accept-Encoding/);
+    expect(packed.body).toEqual(plain.body);
+    // Other answers are compressed on the way out.
+    const fleet = await as.manager.raw.get('/api/bikes').set('Accept-Encoding', 'gzip');
+    expect(fleet.status).toBe(200);
+    expect(JSON.stringify(fleet.body).length).toBeGreaterThan(1024);
+    expect(fleet.headers['content-encoding']).toBe('gzip');
+  });
+
   it('shows a check-in at once: the write moves the data version on', async () => {
     await as.manager.get('/api/due?within=7');
     expect((await as.manager.post(`/api/bikes/${bike.id}/check-ins`).send({ odometer: 5010 })).status).toBe(201);
