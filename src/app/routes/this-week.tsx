@@ -8,6 +8,7 @@ export function ThisWeekBoard() {
   const warnings = useQuery(valveQueries.warnings());
   return (
     <ThisWeekRoute
+      extraPending={warnings.isPending}
       extra={
         <section aria-labelledby="valve-warnings" className="flex flex-col gap-2">
           <h2 id="valve-warnings" className="flex items-center gap-2 text-xl font-bold">

@@ -18,8 +18,12 @@ const FeedSchema = z.object({ url: z.string() });
 export const dueQueries = {
   all: () => ['due'] as const,
   list: (f: DueFilter) => queryOptions({ queryKey: [...dueQueries.all(), 'list', f], queryFn: () => api.get('/api/due', DueListSchema, { ...f }) }),
-  // Same key as the fleet register's, so both screens share one copy of the bike list.
-  bikes: () => queryOptions({ queryKey: ['bikes', 'list', {}], queryFn: () => api.get('/api/bikes', BikeListSchema, {}) }),
+  // Only the grounded bikes: the board needs a handful, not the fleet register's thousands.
+  grounded: () =>
+    queryOptions({
+      queryKey: ['bikes', 'list', { status: 'out_of_service' }],
+      queryFn: () => api.get('/api/bikes', BikeListSchema, { status: 'out_of_service' }),
+    }),
   assignees: () => queryOptions({ queryKey: ['tasks', 'assignees'], queryFn: () => api.get('/api/tasks/assignees', AssigneeListSchema) }),
   feed: () => queryOptions({ queryKey: ['calendar', 'feed'], queryFn: () => api.get('/api/calendar/feed', FeedSchema), staleTime: Infinity }),
 };

@@ -13,15 +13,16 @@ export function AssignSelect({ item }: { item: DueItem }) {
   const people = useQuery({ ...dueQueries.assignees(), enabled: may });
   const assign = useAssign();
   if (!item.taskId) return <span className="text-ink-muted">No task raised yet</span>;
-  if (!may || !people.data) return <span>{item.assignee?.name ?? <span className="text-ink-muted">Nobody yet</span>}</span>;
-  const here = people.data.items.filter((p) => p.siteIds.includes(item.siteId));
+  if (!may) return <span>{item.assignee?.name ?? <span className="text-ink-muted">Nobody yet</span>}</span>;
+  // The same box while the technicians load (held, showing who has it now), so no row changes size when they arrive.
+  const here = people.data?.items.filter((p) => p.siteIds.includes(item.siteId)) ?? [];
   return (
     <select
       aria-label={`Technician for ${item.fleetNumber}, ${item.item}`}
       title="Open work already given to each technician is shown in brackets."
-      className="min-h-tap rounded-card border-2 border-ink-line bg-paper-raised px-2"
+      className="min-h-tap w-56 rounded-card border-2 border-ink-line bg-paper-raised px-2"
       value={item.assignee?.id ?? ''}
-      disabled={assign.isPending}
+      disabled={assign.isPending || !people.data}
       onChange={(e) => {
         const id = e.target.value || null;
         const name = here.find((p) => p.id === id)?.name ?? 'nobody';

@@ -14,14 +14,17 @@ import { SiteSummary } from '../components/site-summary';
 import { WeekSection } from '../components/week-section';
 
 /** The manager's Monday: what is late, what comes this week, what stands in the yard. */
-/** `extra` is what other features add to the board (valve warnings), composed in src/app. */
-export function ThisWeekRoute({ extra }: { extra?: ReactNode } = {}) {
+/**
+ * `extra` is what other features add to the board (valve warnings), composed in src/app; the board
+ * waits for it while `extraPending`, so that nothing already on screen is pushed down when it arrives.
+ */
+export function ThisWeekRoute({ extra, extraPending = false }: { extra?: ReactNode; extraPending?: boolean } = {}) {
   const week = useQuery(dueQueries.list({ within: 7 }));
-  const bikes = useQuery(dueQueries.bikes());
+  const bikes = useQuery(dueQueries.grounded());
   const sites = useQuery(referenceQueries.sites());
   const overdue = useMemo(() => week.data?.items.filter((d) => d.status === 'overdue') ?? [], [week.data]);
   const soon = useMemo(() => week.data?.items.filter((d) => d.status !== 'overdue') ?? [], [week.data]);
-  const grounded = useMemo(() => bikes.data?.items.filter((b) => b.status === 'out_of_service') ?? [], [bikes.data]);
+  const grounded = useMemo(() => bikes.data?.items ?? [], [bikes.data]);
   const knownItems = useMemo(() => [...new Set(week.data?.items.map((d) => d.item))], [week.data]);
 
   const error = week.error ?? bikes.error;
@@ -30,13 +33,14 @@ export function ThisWeekRoute({ extra }: { extra?: ReactNode } = {}) {
       <PageHeader title="This week">
         {week.data && <p className="num self-center text-ink-soft">Today is {formatDate(week.data.today)}</p>}
       </PageHeader>
-      {week.isPending || bikes.isPending ? (
-        <Loading what="this week’s work" />
-      ) : error ? (
+      {error ? (
         <ErrorPanel error={error} retry={() => { void week.refetch(); void bikes.refetch(); }} />
+      ) : week.isPending || bikes.isPending || sites.isPending || extraPending ? (
+        // Everything below waits too: content arriving above it would push it down the screen.
+        <Loading what="this week’s work" />
       ) : (
         <>
-          <SiteSummary sites={sites.data?.items ?? []} due={week.data!.items} bikes={bikes.data!.items} />
+          <SiteSummary sites={sites.data?.items ?? []} due={week.data!.items} bikes={grounded} />
           <WeekSection title="Overdue" icon="!" count={overdue.length} tone="stop">
             <DataTable caption="Overdue work" columns={weekColumns} data={overdue} pageSize={100} empty="✓ Nothing is overdue." />
           </WeekSection>
@@ -47,11 +51,11 @@ export function ThisWeekRoute({ extra }: { extra?: ReactNode } = {}) {
             <GroundedList bikes={grounded} />
           </WeekSection>
           {extra}
+          <DueListPanel knownItems={knownItems} />
+          <CalendarFeed />
+          <SafetyNote />
         </>
       )}
-      <DueListPanel knownItems={knownItems} />
-      <CalendarFeed />
-      <SafetyNote />
     </div>
   );
 }
