@@ -22,7 +22,7 @@ export interface Worker {
 export async function startWorker(opts: { dataDir?: string; dist?: string; nodeArgs?: string[] }): Promise<Worker> {
   const args = [...(opts.dataDir ? ['--data', opts.dataDir] : []), ...(opts.dist ? ['--dist', opts.dist] : [])];
   const child: ChildProcess = fork(join(BENCH_DIR, 'worker.ts'), args, {
-    execArgv: ['--import', import.meta.resolve('tsx'), ...(opts.nodeArgs ?? [])],
+    execArgv: ['--import', import.meta.resolve('tsx'), '--expose-gc', ...(opts.nodeArgs ?? [])],
     env: { ...process.env, NODE_ENV: 'production' },
     stdio: ['ignore', 'inherit', 'inherit', 'ipc'],
   });

@@ -74,6 +74,15 @@ const handlers: Record<string, Handler> = {
   recordStart: () => recorder.start(),
   recordStop: () => recorder.stop(),
   memory,
+  /** After a full garbage collection (the worker runs with --expose-gc): what the server really holds. */
+  memoryAfterGc: async () => {
+    const gc = (globalThis as { gc?: () => void }).gc;
+    if (!gc) throw new Error('Start the benchmark server with --expose-gc to measure memory after a collection.');
+    gc();
+    await new Promise((r) => setTimeout(r, 200));
+    gc();
+    return memory();
+  },
   cpuStart: () => profiler.start(),
   cpuStop: () => profiler.stop(),
   loopDelayStart: () => {

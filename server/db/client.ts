@@ -30,6 +30,9 @@ export interface OpenOptions {
   migrate?: boolean;
 }
 
+/** PGlite's shared_buffers (PostgreSQL's default is 128MB). */
+export const PGLITE_SHARED_BUFFERS = '32MB';
+
 export async function openDatabase(opts: OpenOptions): Promise<Database> {
   if (opts.databaseUrl) {
     const pool = new pg.Pool({ connectionString: opts.databaseUrl, max: 10 });
@@ -38,9 +41,12 @@ export async function openDatabase(opts: OpenOptions): Promise<Database> {
     return { db, kind: 'postgres', close: () => pool.end() };
   }
   if (opts.dataDir) mkdirSync(opts.dataDir, { recursive: true });
+  // PostgreSQL's own page cache lives inside PGlite's WebAssembly memory, which never shrinks; the
+  // operating system caches the data files as well, so a smaller one keeps the server's memory down.
+  const conf = { postgresqlconf: [`shared_buffers = ${PGLITE_SHARED_BUFFERS}`] };
   const client = opts.dataDir
-    ? new PGlite(`${opts.dataDir}/pglite`)
-    : new PGlite(opts.loadDataDir ? { loadDataDir: opts.loadDataDir } : {});
+    ? new PGlite(`${opts.dataDir}/pglite`, conf)
+    : new PGlite(opts.loadDataDir ? { loadDataDir: opts.loadDataDir, ...conf } : conf);
   await client.waitReady;
   const db = drizzlePglite({ client, schema }) as unknown as Db;
   if (opts.migrate !== false) await migratePglite(db as never, { migrationsFolder: MIGRATIONS_FOLDER });
