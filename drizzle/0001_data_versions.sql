@@ -3,6 +3,8 @@ CREATE TABLE "data_versions" (
 	"n" bigint DEFAULT 0 NOT NULL
 );
 --> statement-breakpoint
+CREATE INDEX "odometer_readings_bike_resets" ON "odometer_readings" USING btree ("bike_id","odometer_km") WHERE "odometer_readings"."reset";
+--> statement-breakpoint
 INSERT INTO "data_versions" ("scope", "n") VALUES ('fleet', 1), ('people', 1);
 --> statement-breakpoint
 CREATE FUNCTION "lashline_data_changed"() RETURNS trigger LANGUAGE plpgsql AS $$

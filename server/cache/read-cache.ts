@@ -35,7 +35,7 @@ export class ReadCache {
   private readonly entries: LRUCache<string, Entry>;
   private readonly pending = new Map<string, Promise<Entry>>();
   /** The version read once per request: every cached read in it is checked against that one read. */
-  private readonly perRequest = new WeakMap<object, Map<DataScope, Promise<number>>>();
+  private readonly perRequest = new WeakMap<object, Promise<Record<DataScope, number>>>();
 
   constructor(
     private readonly db: Db,
@@ -45,22 +45,28 @@ export class ReadCache {
   }
 
   async version(scope: DataScope = 'fleet'): Promise<number> {
-    const { rows } = (await this.db.execute(sql`select n from data_versions where scope = ${scope}`)) as unknown as { rows: { n: number | string }[] };
-    // No row (a database restored from outside the app): nothing can be trusted, so nothing is cached.
-    return rows.length ? Number(rows[0].n) : Number.NaN;
+    return (await this.versions())[scope];
+  }
+
+  /** Every scope's version in one read. No row (a database restored from outside the app): nothing can be trusted, so nothing is cached. */
+  async versions(): Promise<Record<DataScope, number>> {
+    const { rows } = (await this.db.execute(sql`select scope, n from data_versions`)) as unknown as { rows: { scope: string; n: number | string }[] };
+    const of = (scope: DataScope) => {
+      const row = rows.find((r) => r.scope === scope);
+      return row ? Number(row.n) : Number.NaN;
+    };
+    return { fleet: of('fleet'), people: of('people') };
   }
 
   /**
-   * The version for one request, read on its first use. Safe for the reads of a request that has
+   * The versions for one request, read once on first use. Safe for the reads of a request that has
    * not written yet (data read after the version is at least as new); a request that writes must not
    * read its own changes through the cache.
    */
-  versionFor(req: object, scope: DataScope = 'fleet'): Promise<number> {
-    let byScope = this.perRequest.get(req);
-    if (!byScope) this.perRequest.set(req, (byScope = new Map()));
-    let v = byScope.get(scope);
-    if (!v) byScope.set(scope, (v = this.version(scope)));
-    return v;
+  async versionFor(req: object, scope: DataScope = 'fleet'): Promise<number> {
+    let v = this.perRequest.get(req);
+    if (!v) this.perRequest.set(req, (v = this.versions()));
+    return (await v)[scope];
   }
 
   async get(key: string, compute: () => Promise<unknown>, opts: { req?: object; scope?: DataScope } = {}): Promise<CachedAnswer> {

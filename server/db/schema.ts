@@ -131,6 +131,8 @@ export const odometerReadings = pgTable(
     index('odometer_readings_bike_date').on(t.bikeId, t.date, t.odometerKm),
     // The highest reading of a bike is one index probe (its latest odometer, its current km).
     index('odometer_readings_bike_km').on(t.bikeId, t.odometerKm),
+    // The odometer fitted now (the latest replacement) is one probe too, not a walk through every reading.
+    index('odometer_readings_bike_resets').on(t.bikeId, t.odometerKm).where(sql`${t.reset}`),
   ],
 );
 

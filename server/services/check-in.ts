@@ -1,7 +1,10 @@
-import { and, desc, eq, inArray, lt } from 'drizzle-orm';
-import { continuousKm, currentOdometers } from './odometer-anchor';
+import { and, eq, inArray, sql, type SQL } from 'drizzle-orm';
+import { continuousKm, inServiceOdometer } from './odometer-anchor';
 import type { Db, Tx } from '../db/client';
 import { bikes, defects, odometerReadings, sites, userSites, users } from '../db/schema';
+import { jsonTuples } from '../db/json-rows';
+import type { OdometerSegment } from '../../shared/domain/odometer';
+import type { OdometerUnit } from '../../shared/domain/units';
 import { validateNextReading } from '../../shared/domain/odometer';
 import { todayInZone } from '../../shared/domain/dates';
 import type { CheckIn } from '../../shared/schemas/due';
@@ -32,25 +35,14 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
     if (bike.status === 'retired') throw conflict('This bike is retired. A manager can bring it back before it is checked in.');
     const today = todayInZone(row.timeZone, now);
     const date = input.date ?? today;
-    const [latest] = await tx
-      .select()
-      .from(odometerReadings)
-      .where(eq(odometerReadings.bikeId, bikeId))
-      .orderBy(desc(odometerReadings.date), desc(odometerReadings.odometerKm), desc(odometerReadings.createdAt))
-      .limit(1);
+    const { latest, prior, reset } = await readingContext(tx, bikeId, date);
     if (latest && date < latest.date)
       throw conflict(`The last check-in is dated ${day(latest.date)}; a reading cannot be dated before it.`, [{ path: 'date', message: `Before ${day(latest.date)}.` }]);
     // Judged on the continuous km scale against the highest reading of the days before: readings of
     // one day may arrive in any order (two counters, a late entry), and the highest stays current.
     const unit = bike.odometerUnit;
-    const odometer = (await currentOdometers(tx, [bike])).get(bike.id)!;
+    const odometer = reset ?? inServiceOdometer(bike);
     const odometerKm = input.reset ? (latest?.odometerKm ?? odometer.startCumulativeKm) : continuousKm(input.odometer, unit, odometer);
-    const [prior] = await tx
-      .select()
-      .from(odometerReadings)
-      .where(and(eq(odometerReadings.bikeId, bikeId), lt(odometerReadings.date, date)))
-      .orderBy(desc(odometerReadings.odometerKm))
-      .limit(1);
     const check = validateNextReading({
       last: prior ? { date: prior.date, value: prior.odometerKm, unit: 'km' } : null,
       next: { date, value: odometerKm, unit: 'km', reset: input.reset },
@@ -97,6 +89,28 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
     const { report, computed } = await recomputeBike(tx, bikeId, now);
     return { reading, grounded, defectId, report, computed };
   });
+}
+
+type Reading = { date: string; odometerKm: number; value: number; unit: OdometerUnit };
+
+/**
+ * What a new reading is judged against, in one statement: the latest check-in, the highest reading
+ * of the days before `date`, and the odometer fitted now (the latest replacement, if any).
+ */
+async function readingContext(tx: Tx, bikeId: string, date: string) {
+  const pick = (where: SQL, order: SQL) =>
+    sql`(select json_build_object('date', r.date, 'odometerKm', r.odometer_km, 'value', r.value, 'unit', r.unit)
+           from odometer_readings r where r.bike_id = ${bikeId} and ${where} order by ${order} limit 1)`;
+  const [row] = await jsonTuples<[Reading | null, Reading | null, Reading | null]>(
+    tx,
+    sql`select json_build_array(
+          ${pick(sql`true`, sql`r.date desc, r.odometer_km desc, r.created_at desc`)},
+          ${pick(sql`r.date < ${date}`, sql`r.odometer_km desc`)},
+          ${pick(sql`r.reset`, sql`r.odometer_km desc`)}) as a`,
+  );
+  const [latest, prior, replaced] = row;
+  const reset: OdometerSegment | null = replaced ? { startCumulativeKm: replaced.odometerKm, startValue: replaced.value, unit: replaced.unit, startDate: replaced.date } : null;
+  return { latest, prior, reset };
 }
 
 async function tellManagers(tx: Tx, siteId: string, subject: string, text: string, key: string, now: Date) {

@@ -12,9 +12,7 @@ type AnchorBike = Pick<typeof bikes.$inferSelect, 'id' | 'inServiceDate' | 'inSe
  */
 export async function currentOdometers(db: DbOrTx, list: readonly AnchorBike[]): Promise<Map<string, OdometerSegment>> {
   const out = new Map<string, OdometerSegment>();
-  for (const b of list) {
-    out.set(b.id, { startCumulativeKm: toKm(b.inServiceOdometer, b.odometerUnit), startValue: b.inServiceOdometer, unit: b.odometerUnit, startDate: b.inServiceDate });
-  }
+  for (const b of list) out.set(b.id, inServiceOdometer(b));
   if (!list.length) return out;
   const resets = await db
     .selectDistinctOn([odometerReadings.bikeId], { bikeId: odometerReadings.bikeId, km: odometerReadings.odometerKm, value: odometerReadings.value, unit: odometerReadings.unit, date: odometerReadings.date })
@@ -24,6 +22,14 @@ export async function currentOdometers(db: DbOrTx, list: readonly AnchorBike[]):
   for (const r of resets) out.set(r.bikeId, { startCumulativeKm: r.km, startValue: r.value, unit: r.unit, startDate: r.date });
   return out;
 }
+
+/** The odometer a bike entered service with, on the continuous km scale. */
+export const inServiceOdometer = (b: AnchorBike): OdometerSegment => ({
+  startCumulativeKm: toKm(b.inServiceOdometer, b.odometerUnit),
+  startValue: b.inServiceOdometer,
+  unit: b.odometerUnit,
+  startDate: b.inServiceDate,
+});
 
 /** The continuous km for a value read off the bike's current odometer. */
 export const continuousKm = (value: number, unit: OdometerSegment['unit'], odometer: OdometerSegment) => cumulativeFromDisplay(value, odometer, unit);
