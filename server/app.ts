@@ -4,6 +4,7 @@ import session from 'express-session';
 import helmet from 'helmet';
 import type { Database } from './db/client';
 import { ReadCache } from './cache/read-cache';
+import { CheckInQueue } from './services/check-in-queue';
 import type { Config } from './config';
 import { DbSessionStore } from './auth/session-store';
 import { createPassport } from './auth/passport';
@@ -55,6 +56,8 @@ export interface AppContext {
   sessions: DbSessionStore;
   /** Heavy fleet-wide answers, valid while the data version stands. */
   readCache: ReadCache;
+  /** Check-ins written in batches while the database is busy. */
+  checkIns: CheckInQueue;
   now: () => Date;
   sessionSecret: string;
   publicUrl: (req?: import('express').Request) => string;
@@ -69,6 +72,7 @@ export function createApp(deps: AppDeps): Express {
     config,
     sessions: new DbSessionStore(database.db),
     readCache: new ReadCache(database.db),
+    checkIns: new CheckInQueue(database.db, deps.now ?? (() => new Date())),
     now: deps.now ?? (() => new Date()),
     sessionSecret: deps.sessionSecret,
     jobToken: deps.jobToken,

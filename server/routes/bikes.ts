@@ -19,8 +19,7 @@ import { canSeeSite } from '../../shared/domain/policies';
 import { audit, diff } from '../audit';
 import { badRequest, conflict, forbidden, notFound } from '../http-error';
 import { fleetNumberTaken, getBike, listBikes, readingsOf } from '../services/bikes';
-import { recordCheckIn } from '../services/check-in';
-import { dueItemsFromComputed, listDue } from '../services/due-list';
+import { listDue } from '../services/due-list';
 import { rideVerdict } from '../services/ride-check';
 import { bikeTimeline } from '../services/timeline';
 import { CheckInSchema, type CheckIn } from '../../shared/schemas/due';
@@ -67,9 +66,7 @@ export function bikeRoutes(ctx: AppContext) {
     async (req, res) => {
       const user = currentUser(req);
       const { id } = req.valid.params as { id: string };
-      const { reading, grounded, defectId, computed } = await recordCheckIn(db, user, id, req.valid.body as CheckIn, ctx.now());
-      const bike = (await getBike(db, user.siteIds, id))!;
-      const due = await dueItemsFromComputed(db, bike, computed);
+      const { reading, grounded, defectId, bike, due } = await ctx.checkIns.record(user, id, req.valid.body as CheckIn, ctx.now());
       res.status(201).json({
         reading: { id: reading.id, date: reading.date, value: reading.value, unit: reading.unit, odometerKm: reading.odometerKm, reset: reading.reset },
         bike,

@@ -115,21 +115,26 @@ export async function listDue(db: DbOrTx, siteIds: string[], f: DueFilter, now: 
   return out;
 }
 
-/**
- * One bike's due items straight from the computation just stored (a check-in's answer), in
- * listDue's order and shape, without reading the states back: only its open tasks are read.
- */
-export async function dueItemsFromComputed(db: DbOrTx, bike: BikeSummary, computed: ComputedDue[]): Promise<DueItem[]> {
-  const tasks = new Map<string, { id: string; assigneeId: string | null; assigneeName: string | null }>();
-  const open = await jsonTuples<[string, string, string | null, string | null]>(
+type OpenTask = { id: string; assigneeId: string | null; assigneeName: string | null };
+
+/** The open task of each item (the oldest, if there are two), per bike. */
+export async function openTasks(db: DbOrTx, bikeIds: string[]): Promise<Map<string, Map<string, OpenTask>>> {
+  const out = new Map<string, Map<string, OpenTask>>(bikeIds.map((id) => [id, new Map()]));
+  if (!bikeIds.length) return out;
+  const rows = await jsonTuples<[string, string, string, string | null, string | null]>(
     db,
-    sql`select json_build_array(t.service_item_id, t.id, u.id, u.name) as a, t.raised_at, t.id
+    sql`select json_build_array(t.bike_id, t.service_item_id, t.id, u.id, u.name) as a, t.raised_at, t.id
           from service_tasks t left join users u on u.id = t.assignee_id
-         where t.bike_id = ${bike.id} and t.status in ('open', 'in_progress')`,
+         where t.bike_id in (${ids(bikeIds)}) and t.status in ('open', 'in_progress')`,
     sql`q.raised_at desc, q.id desc`,
   );
   // Latest first, so the oldest open task of an item is the one kept, as in listDue.
-  for (const [itemId, id, assigneeId, assigneeName] of open) tasks.set(itemId, { id, assigneeId, assigneeName });
+  for (const [bikeId, itemId, id, assigneeId, assigneeName] of rows) out.get(bikeId)?.set(itemId, { id, assigneeId, assigneeName });
+  return out;
+}
+
+/** One bike's due items from a computation just stored, in listDue's order and shape. */
+export function dueItemsOf(bike: BikeSummary, computed: ComputedDue[], tasks: Map<string, OpenTask>): DueItem[] {
   const rank = (c: ComputedDue) => (c.result.status === 'overdue' ? 0 : 1);
   const ordered = computed
     .filter((c) => c.bikeId === bike.id)
@@ -162,6 +167,14 @@ export async function dueItemsFromComputed(db: DbOrTx, bike: BikeSummary, comput
       assignee: task?.assigneeId ? { id: task.assigneeId, name: task.assigneeName! } : null,
     };
   });
+}
+
+/**
+ * One bike's due items straight from the computation just stored (a check-in's answer), without
+ * reading the states back: only its open tasks are read.
+ */
+export async function dueItemsFromComputed(db: DbOrTx, bike: BikeSummary, computed: ComputedDue[]): Promise<DueItem[]> {
+  return dueItemsOf(bike, computed, (await openTasks(db, [bike.id])).get(bike.id)!);
 }
 
 /** SQL's ascending order of dates, nulls last. */
