@@ -1,10 +1,9 @@
 import { and, eq, inArray, sql } from 'drizzle-orm';
 import type { DbOrTx as Writer } from '../db/client';
-import { bikes, dueStates, serviceTasks, userSites, users } from '../db/schema';
+import { auditLog, serviceTasks, userSites, users } from '../db/schema';
 import { computeDue, type DueResult } from '../../shared/domain/due';
 import { toKm } from '../../shared/domain/units';
 import { usageRate } from '../../shared/domain/usage';
-import { audit } from '../audit';
 import { doneKey, loadDueInputs, type DueInputs } from './due-data';
 
 
@@ -142,28 +141,26 @@ export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): 
       return [{ bikeId: c.bikeId, serviceItemId: c.item.id, cycleKey: key, dueDate: c.result.dueDate, estimatedMinutes: c.item.estimatedMinutes, assigneeId: pickTechnician(loads.get(c.siteId), c.item.estimatedMinutes), raisedAt: now }];
     }),
   );
-  let bikesGrounded = 0;
   const unsafe = new Map<string, string[]>();
   for (const c of wanted) {
     if (c.result.status === 'overdue' && c.item.safetyCritical) unsafe.set(c.bikeId, [...(unsafe.get(c.bikeId) ?? []), c.item.name]);
   }
-  // Most of these bikes were grounded by an earlier run: one read finds the few still in service.
-  const riding = unsafe.size
-    ? new Set((await db.select({ id: bikes.id }).from(bikes).where(and(inArray(bikes.id, [...unsafe.keys()]), eq(bikes.status, 'in_service')))).map((b) => b.id))
-    : new Set<string>();
-  for (const [bikeId, names] of unsafe) {
-    if (!riding.has(bikeId)) continue;
-    const reason = `Overdue safety-critical work: ${names.join(', ')}. Do not ride until it is done and signed off.`;
-    const changed = await db
-      .update(bikes)
-      .set({ status: 'out_of_service', statusReason: reason, updatedAt: now })
-      .where(and(eq(bikes.id, bikeId), eq(bikes.status, 'in_service')))
-      .returning({ id: bikes.id });
-    if (changed.length) {
-      bikesGrounded++;
-      await audit(db, { userId: null, action: 'grounded', entity: 'bike', entityId: bikeId, changes: { status: ['in_service', 'out_of_service'], reason } });
-    }
+  // One statement grounds every bike still in service (most were grounded by an earlier run), one
+  // more records why.
+  const reasons = [...unsafe].map(([bikeId, names]) => ({ id: bikeId, reason: `Overdue safety-critical work: ${names.join(', ')}. Do not ride until it is done and signed off.` }));
+  const grounded = reasons.length
+    ? ((await db.execute(sql`
+        update bikes b set status = 'out_of_service', status_reason = x.reason, updated_at = ${now.toISOString()}::timestamptz
+          from jsonb_to_recordset(${JSON.stringify(reasons)}::jsonb) as x(id uuid, reason text)
+         where b.id = x.id and b.status = 'in_service'
+        returning b.id, x.reason`)) as unknown as { rows: { id: string; reason: string }[] }).rows
+    : [];
+  if (grounded.length) {
+    await db.insert(auditLog).values(
+      grounded.map(({ id: bikeId, reason }) => ({ userId: null, action: 'grounded', entity: 'bike', entityId: bikeId, changes: { status: ['in_service', 'out_of_service'], reason } })),
+    );
   }
+  const bikesGrounded = grounded.length;
   return { computed: computed.length, tasksRaised, bikesGrounded };
 }
 

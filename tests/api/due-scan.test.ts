@@ -2,10 +2,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import Papa from 'papaparse';
 import ICAL from 'ical.js';
-import { eq } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import { agent, manualClock, testApp, type Agent, type TestContext } from '../support/test-app';
 import { PASSWORD, makeBike, makeServiceItem, makeUser, world } from '../support/factories';
-import { bikes, odometerReadings, serviceTasks } from '../../server/db/schema';
+import { auditLog, bikes, odometerReadings, serviceTasks } from '../../server/db/schema';
 import { run as dueScan } from '../../jobs/due-scan';
 
 const clock = manualClock('2026-06-15T09:00:00Z');
@@ -69,6 +69,10 @@ describe('the due scan', () => {
     const [idle] = await t.database.db.select().from(bikes).where(eq(bikes.id, ids.idle));
     expect(idle.status).toBe('out_of_service');
     expect(idle.statusReason).toContain('Brake check');
+    // Recorded once, by the scan (no person), with the reason.
+    const trail = await t.database.db.select().from(auditLog).where(and(eq(auditLog.entityId, ids.idle), eq(auditLog.action, 'grounded')));
+    expect(trail).toHaveLength(1);
+    expect(trail[0]).toMatchObject({ userId: null, entity: 'bike', changes: { status: ['in_service', 'out_of_service'], reason: idle.statusReason } });
   });
 
   it('spreads new work over the site’s technicians by open minutes', async () => {
