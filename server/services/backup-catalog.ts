@@ -23,27 +23,26 @@ export const quote = (identifier: string) => `"${identifier.replace(/"/g, '""')}
 
 /** Every table in the public schema, parents before the tables that reference them. */
 export async function readCatalog(q: Query): Promise<TableInfo[]> {
-  const [tables, columns, keys, links, sequences] = await Promise.all([
-    q<{ name: string }>(`select c.relname as name from pg_class c join pg_namespace n on n.oid = c.relnamespace where n.nspname = 'public' and c.relkind in ('r', 'p')`),
-    q<{ table_name: string; column_name: string; data_type: string }>(
-      `select table_name, column_name, data_type from information_schema.columns where table_schema = 'public' order by table_name, ordinal_position`,
-    ),
-    q<{ name: string; col: string; pos: number }>(
-      `select c.relname as name, a.attname as col, array_position(k.conkey, a.attnum) as pos from pg_constraint k
-       join pg_class c on c.oid = k.conrelid join pg_namespace n on n.oid = c.relnamespace
-       join pg_attribute a on a.attrelid = c.oid and a.attnum = any(k.conkey)
-       where k.contype = 'p' and n.nspname = 'public' order by 1, 3`,
-    ),
-    q<{ child: string; parent: string }>(
-      `select tc.relname as child, pc.relname as parent from pg_constraint k
-       join pg_class tc on tc.oid = k.conrelid join pg_class pc on pc.oid = k.confrelid join pg_namespace n on n.oid = tc.relnamespace
-       where k.contype = 'f' and n.nspname = 'public'`,
-    ),
-    q<{ table_name: string; column_name: string; seq: string | null }>(
-      `select table_name, column_name, pg_get_serial_sequence(quote_ident(table_name), column_name) as seq from information_schema.columns
-       where table_schema = 'public' and (column_default like 'nextval(%' or is_identity = 'YES')`,
-    ),
-  ]);
+  // One after the other: a restore reads this inside its transaction, on one connection.
+  const tables = await q<{ name: string }>(`select c.relname as name from pg_class c join pg_namespace n on n.oid = c.relnamespace where n.nspname = 'public' and c.relkind in ('r', 'p')`);
+  const columns = await q<{ table_name: string; column_name: string; data_type: string }>(
+    `select table_name, column_name, data_type from information_schema.columns where table_schema = 'public' order by table_name, ordinal_position`,
+  );
+  const keys = await q<{ name: string; col: string; pos: number }>(
+    `select c.relname as name, a.attname as col, array_position(k.conkey, a.attnum) as pos from pg_constraint k
+     join pg_class c on c.oid = k.conrelid join pg_namespace n on n.oid = c.relnamespace
+     join pg_attribute a on a.attrelid = c.oid and a.attnum = any(k.conkey)
+     where k.contype = 'p' and n.nspname = 'public' order by 1, 3`,
+  );
+  const links = await q<{ child: string; parent: string }>(
+    `select tc.relname as child, pc.relname as parent from pg_constraint k
+     join pg_class tc on tc.oid = k.conrelid join pg_class pc on pc.oid = k.confrelid join pg_namespace n on n.oid = tc.relnamespace
+     where k.contype = 'f' and n.nspname = 'public'`,
+  );
+  const sequences = await q<{ table_name: string; column_name: string; seq: string | null }>(
+    `select table_name, column_name, pg_get_serial_sequence(quote_ident(table_name), column_name) as seq from information_schema.columns
+     where table_schema = 'public' and (column_default like 'nextval(%' or is_identity = 'YES')`,
+  );
   const info = new Map<string, TableInfo>(tables.map((t) => [t.name, { name: t.name, columns: [], key: [], sequences: [] }]));
   for (const c of columns) info.get(c.table_name)?.columns.push({ name: c.column_name, type: c.data_type });
   for (const k of keys) info.get(k.name)?.key.push(k.col);

@@ -31,11 +31,10 @@ function linesOf(csv: string, kind: ImportKind) {
 
 async function checkBikes(db: DbOrTx, user: SessionUser, csv: string, now: Date) {
   const lines = linesOf(csv, 'bikes');
-  const [models, siteRows, fleet] = await Promise.all([
-    db.select({ id: bikeModels.id, name: bikeModels.name }).from(bikeModels),
-    db.select({ id: sites.id, name: sites.name, timeZone: sites.timeZone }).from(sites),
-    db.select({ n: sql<string>`lower(${bikes.fleetNumber})` }).from(bikes),
-  ]);
+  // One after the other: inside a transaction there is one connection, which runs one query at a time.
+  const models = await db.select({ id: bikeModels.id, name: bikeModels.name }).from(bikeModels);
+  const siteRows = await db.select({ id: sites.id, name: sites.name, timeZone: sites.timeZone }).from(sites);
+  const fleet = await db.select({ n: sql<string>`lower(${bikes.fleetNumber})` }).from(bikes);
   return checkBikeRows(lines, {
     models: new Map(models.map((m) => [key(m.name), m.id])),
     sites: new Map(siteRows.map((s) => [key(s.name), { id: s.id, mine: canSeeSite(user, s.id), today: todayInZone(s.timeZone, now) }])),

@@ -31,11 +31,10 @@ export const odometerAt = (km: number, odometers: OdometerSegment[]) =>
 export async function serviceRecordOf(db: DbOrTx, siteIds: string[], bikeId: string, now: Date): Promise<ServiceRecord | null> {
   const bike = await getBike(db, siteIds, bikeId);
   if (!bike) return null;
-  const [[model], [site], odometers] = await Promise.all([
-    db.select().from(bikeModels).where(eq(bikeModels.id, bike.model.id)),
-    db.select({ id: sites.id, name: sites.name, timeZone: sites.timeZone }).from(sites).where(eq(sites.id, bike.site.id)),
-    odometersOf(db, bike),
-  ]);
+  // One after the other: inside a transaction there is one connection, which runs one query at a time.
+  const [model] = await db.select().from(bikeModels).where(eq(bikeModels.id, bike.model.id));
+  const [site] = await db.select({ id: sites.id, name: sites.name, timeZone: sites.timeZone }).from(sites).where(eq(sites.id, bike.site.id));
+  const odometers = await odometersOf(db, bike);
   const records = await db
     .select({ r: serviceRecords, item: { name: serviceItems.name, category: serviceItems.category, safetyCritical: serviceItems.safetyCritical }, by: users.name })
     .from(serviceRecords)
