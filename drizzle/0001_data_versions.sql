@@ -5,7 +5,7 @@ CREATE TABLE "data_versions" (
 --> statement-breakpoint
 CREATE INDEX "odometer_readings_bike_resets" ON "odometer_readings" USING btree ("bike_id","odometer_km") WHERE "odometer_readings"."reset";
 --> statement-breakpoint
-INSERT INTO "data_versions" ("scope", "n") VALUES ('fleet', 1), ('people', 1);
+INSERT INTO "data_versions" ("scope", "n") VALUES ('fleet', 1), ('people', 1), ('valves', 1);
 --> statement-breakpoint
 CREATE FUNCTION "lashline_data_changed"() RETURNS trigger LANGUAGE plpgsql AS $$
 BEGIN
@@ -17,9 +17,9 @@ $$;
 --> statement-breakpoint
 CREATE TRIGGER "attachments_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "attachments" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "bike_models_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "bike_models" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
+CREATE TRIGGER "bike_models_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "bike_models" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'valves');
 --> statement-breakpoint
-CREATE TRIGGER "bikes_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "bikes" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
+CREATE TRIGGER "bikes_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "bikes" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'valves');
 --> statement-breakpoint
 CREATE TRIGGER "defects_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "defects" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
@@ -29,11 +29,11 @@ CREATE TRIGGER "odometer_readings_data_changed" AFTER INSERT OR UPDATE OR DELETE
 --> statement-breakpoint
 CREATE TRIGGER "reading_templates_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "reading_templates" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "service_items_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_items" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
+CREATE TRIGGER "service_items_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_items" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'valves');
 --> statement-breakpoint
 CREATE TRIGGER "service_readings_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_readings" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
-CREATE TRIGGER "service_records_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_records" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
+CREATE TRIGGER "service_records_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_records" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'valves');
 --> statement-breakpoint
 CREATE TRIGGER "service_tasks_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "service_tasks" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint
@@ -49,6 +49,6 @@ CREATE TRIGGER "user_sites_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRU
 --> statement-breakpoint
 CREATE TRIGGER "users_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "users" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'people');
 --> statement-breakpoint
-CREATE TRIGGER "valve_checks_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "valve_checks" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
+CREATE TRIGGER "valve_checks_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "valve_checks" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'valves');
 --> statement-breakpoint
-CREATE TRIGGER "valve_readings_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "valve_readings" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
+CREATE TRIGGER "valve_readings_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "valve_readings" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'valves');

@@ -7,8 +7,12 @@ import { sql } from 'drizzle-orm';
 import type { Db } from '../db/client';
 
 /** A cached answer: the JSON body as the bytes sent, and the data version it was read at. */
-/** 'fleet' moves on with any write to the fleet's data; 'people' only with people, their sites and the sites. */
-export type DataScope = 'fleet' | 'people';
+/**
+ * 'fleet' moves on with any write to the fleet's data; 'people' only with people, their sites and the
+ * sites; 'valves' only with what valve trends are made of (valve checks and readings, services done,
+ * bikes, models and their plans), not with every check-in.
+ */
+export type DataScope = 'fleet' | 'people' | 'valves';
 
 interface Entry {
   version: number;
@@ -55,7 +59,7 @@ export class ReadCache {
       const row = rows.find((r) => r.scope === scope);
       return row ? Number(row.n) : Number.NaN;
     };
-    return { fleet: of('fleet'), people: of('people') };
+    return { fleet: of('fleet'), people: of('people'), valves: of('valves') };
   }
 
   /**
@@ -105,8 +109,8 @@ export class ReadCache {
    * Sends a cached JSON answer, or 304 when the browser already holds this very body. Private to
    * the signed-in person (the key carries their sites); the browser asks again every time.
    */
-  async send(req: Request, res: Response, key: string, compute: () => Promise<unknown>) {
-    const a = await this.get(key, compute, { req });
+  async send(req: Request, res: Response, key: string, compute: () => Promise<unknown>, scope: DataScope = 'fleet') {
+    const a = await this.get(key, compute, { req, scope });
     res.setHeader('Cache-Control', 'private, no-cache');
     res.setHeader('ETag', a.etag);
     res.setHeader('X-Lashline-Cache', a.hit ? 'hit' : 'miss');

@@ -35,12 +35,12 @@ export function valveRoutes(ctx: AppContext) {
 
   r.get('/valves/rollup', requireRole('manager', 'admin', 'technician'), async (req, res) => {
     const { siteIds } = currentUser(req);
-    await ctx.readCache.send(req, res, ReadCache.key('valve-rollup', siteIds, null, ctx.now()), async () => ({ items: await fleetRollup(db, siteIds) }));
+    await ctx.readCache.send(req, res, ReadCache.key('valve-rollup', siteIds, null, ctx.now()), async () => ({ items: await fleetRollup(db, siteIds) }), 'valves');
   });
 
   r.get('/valves/warnings', requireRole('manager', 'admin', 'technician'), async (req, res) => {
     const { siteIds } = currentUser(req);
-    await ctx.readCache.send(req, res, ReadCache.key('valve-warnings', siteIds, null, ctx.now()), async () => ({ items: await valveWarningsFor(db, siteIds) }));
+    await ctx.readCache.send(req, res, ReadCache.key('valve-warnings', siteIds, null, ctx.now()), async () => ({ items: await valveWarningsFor(db, siteIds) }), 'valves');
   });
 
   r.get('/stock/shims', requireRole('technician', 'manager', 'admin'), validate({ query: SiteQuery }), async (req, res) => {

@@ -6,6 +6,8 @@ import { valveHistories, valveLayout, type StoredValveReading } from '../../shar
 import { clearanceTrend } from '../../shared/domain/trend';
 import type { ValveTrendView } from '../../shared/schemas/valves';
 import { toModelSummary } from './models';
+import { dueAtKmFor } from '../../shared/domain/due';
+import { toKm, type OdometerUnit } from '../../shared/domain/units';
 
 const mm = (um: number | null) => (um == null ? null : um / 1000);
 
@@ -34,18 +36,29 @@ export async function readingsForBikes(db: DbOrTx, bikeIds: string[], siteIds?: 
   return by;
 }
 
-/** When each bike's next valve check falls due, in continuous km (from the stored due state). */
+/**
+ * When each bike's next valve check falls due, in continuous km: from the last valve service and the
+ * plan, as the due computation works it out (dueAtKmFor), not from the stored due state, so that the
+ * answer changes only with what valve trends are cached against (see DataScope 'valves').
+ */
 async function nextValveCheckKm(db: DbOrTx, bikeIds: string[], siteIds?: string[]) {
   if (!bikeIds.length) return new Map<string, number | null>();
-  const scope = siteIds
-    ? sql`d.bike_id in (select id from bikes where site_id in (${sql.join(siteIds.map((id) => sql`${id}`), sql`, `)}))`
-    : sql`d.bike_id in (${sql.join(bikeIds.map((id) => sql`${id}`), sql`, `)})`;
-  const rows = await jsonTuples<[string, number | null]>(
+  const scope = siteIds ? sql`b.site_id in (${sql.join(siteIds.map((id) => sql`${id}`), sql`, `)})` : sql`b.id in (${sql.join(bikeIds.map((id) => sql`${id}`), sql`, `)})`;
+  const rows = await jsonTuples<[string, string, number, OdometerUnit, number | null, number | null, string | null, number | null]>(
     db,
-    sql`select json_build_array(d.bike_id, d.due_at_km) as a from due_states d join service_items i on i.id = d.service_item_id
-         where i.category = 'valves' and ${scope}`,
+    sql`select json_build_array(b.id, b.in_service_date, b.in_service_odometer, b.odometer_unit, i.every_km, i.first_at_km, l.date, l.odometer_km) as a
+          from bikes b join service_items i on i.model_id = b.model_id and i.category = 'valves'
+          left join lateral (select d.date, d.odometer_km from service_records d
+                              where d.bike_id = b.id and d.service_item_id = i.id
+                              order by d.date desc, d.odometer_km desc limit 1) l on true
+         where ${scope}`,
   );
-  return new Map(rows);
+  const out = new Map<string, number | null>();
+  for (const [bikeId, inServiceDate, inServiceOdometer, unit, everyKm, firstAtKm, lastDate, lastKm] of rows) {
+    const lastDone = lastDate === null ? null : { date: lastDate, odometerKm: lastKm! };
+    out.set(bikeId, dueAtKmFor({ everyKm, firstAtKm }, lastDone, { date: inServiceDate, odometerKm: toKm(inServiceOdometer, unit) }));
+  }
+  return out;
 }
 
 export interface BikeTrends {

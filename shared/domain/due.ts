@@ -225,21 +225,29 @@ function calendarLimit(interval: ServiceInterval, from: IsoDate): Pick<DueResult
   return { dueByDate: byMonths, calendarSource: byMonths ? 'months' : null };
 }
 
-export function computeDue(input: DueInput): DueResult {
-  const { interval, lastDone, inService, readings, today } = input;
-  assertIsoDate(today, 'date today');
-  checkPoint(inService, 'in-service');
-  if (lastDone) checkPoint(lastDone, 'last service');
+/**
+ * The km at which an item next falls due: the last time it was done plus its interval, or going into
+ * service plus the first-service km (else the interval). Null for an item with no km limit.
+ */
+export function dueAtKmFor(interval: Pick<ServiceInterval, 'everyKm' | 'firstAtKm'>, lastDone: KmReading | null, inService: KmReading): number | null {
   const everyKm = positive(interval.everyKm, 'Km between services');
   const firstAtKm = interval.firstAtKm ?? null;
   if (firstAtKm !== null && !(Number.isFinite(firstAtKm) && firstAtKm >= 0)) {
     throw new Error(`The first service km must be 0 or more, got ${firstAtKm}`);
   }
+  const kmStep = lastDone ? everyKm : (firstAtKm ?? everyKm);
+  return kmStep === null ? null : (lastDone ?? inService).odometerKm + kmStep;
+}
+
+export function computeDue(input: DueInput): DueResult {
+  const { interval, lastDone, inService, readings, today } = input;
+  assertIsoDate(today, 'date today');
+  checkPoint(inService, 'in-service');
+  if (lastDone) checkPoint(lastDone, 'last service');
+  const dueAtKm = dueAtKmFor(interval, lastDone ?? null, inService);
   const soon = { days: input.soon?.days ?? DEFAULT_SOON.days, km: input.soon?.km ?? DEFAULT_SOON.km };
 
   const baseline = lastDone ? { ...lastDone, kind: 'last-done' as const } : { ...inService, kind: 'in-service' as const };
-  const kmStep = lastDone ? everyKm : (firstAtKm ?? everyKm);
-  const dueAtKm = kmStep === null ? null : baseline.odometerKm + kmStep;
   const { dueByDate, calendarSource } = calendarLimit(interval, baseline.date);
 
   let currentKm = baseline.odometerKm;

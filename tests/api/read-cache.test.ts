@@ -99,6 +99,20 @@ describe('cached due list', () => {
   });
 });
 
+describe('cached valve answers', () => {
+  it('stay cached through check-ins, and move on with anything valve trends are made of', async () => {
+    await as.manager.get('/api/valves/warnings');
+    expect((await as.manager.get('/api/valves/warnings')).headers['x-lashline-cache']).toBe('hit');
+    expect((await as.manager.post(`/api/bikes/${bike.id}/check-ins`).send({ odometer: 5100 })).status).toBe(201);
+    // A check-in changes no clearance, no valve service and no plan.
+    expect((await as.manager.get('/api/valves/warnings')).headers['x-lashline-cache']).toBe('hit');
+    await t.database.db.execute(sql`update valve_checks set date = date`);
+    expect((await as.manager.get('/api/valves/warnings')).headers['x-lashline-cache']).toBe('miss');
+    await t.database.db.execute(sql`update service_records set date = date`);
+    expect((await as.manager.get('/api/valves/warnings')).headers['x-lashline-cache']).toBe('miss');
+  });
+});
+
 describe('cached session person', () => {
   it("sees a change to a person's sites on their next request", async () => {
     const me = async (): Promise<string[]> => (await as.technician.get('/api/auth/me')).body.user.siteIds;

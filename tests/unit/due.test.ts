@@ -3,7 +3,7 @@ import { addMonths, format, getDaysInMonth } from 'date-fns';
 import { TZDate } from '@date-fns/tz';
 import * as rruleModule from 'rrule';
 import { addDaysIso, addMonthsIso, compareIso, daysBetween, daysInMonth, isIsoDate, todayInZone } from '../../shared/domain/dates';
-import { computeDue, describeRule, nextRuleDate, parseRule, ruleOccurrences, validateRule } from '../../shared/domain/due';
+import { computeDue, dueAtKmFor, describeRule, nextRuleDate, parseRule, ruleOccurrences, validateRule } from '../../shared/domain/due';
 
 type RruleModule = typeof rruleModule;
 const { RRule } = (Reflect.get(rruleModule, 'default') as RruleModule | undefined) ?? rruleModule;
@@ -157,6 +157,15 @@ describe('computeDue: whichever comes first', () => {
       projectedDateForKm: '2025-03-02', dueDate: '2025-03-02', trigger: 'km', remainingDays: 10, status: 'ok',
       baseline: { date: '2025-01-10', odometerKm: 12_000, kind: 'last-done' },
     });
+  });
+
+  it('puts the next km limit at the last service plus the interval, or the first service km from new', () => {
+    // Common practice: a running-in service at 1,000 km, then every 5,000 km from the last one done.
+    const interval = { everyKm: 5_000, firstAtKm: 1_000 };
+    expect(dueAtKmFor(interval, null, inService)).toBe(1_003);
+    expect(dueAtKmFor(interval, lastDone, inService)).toBe(17_000);
+    expect(dueAtKmFor({ everyKm: null }, lastDone, inService)).toBeNull();
+    expect(computeDue({ interval: { ...oil, firstAtKm: 1_000 }, lastDone, inService, readings: [], today: '2025-02-20' }).dueAtKm).toBe(dueAtKmFor(interval, lastDone, inService));
   });
 
   it('takes a usage rate worked out once per bike and gives the same answer', () => {
