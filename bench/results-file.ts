@@ -14,7 +14,7 @@ export function resultsMarkdown(r: Results, rows: Row[], m: { cpu: string; free:
   const files = (r.bundle?.files ?? []).map((f) => [f.file, kb(f.bytes), kb(f.gzip)]);
   const screens = (r.screens ?? []).map((x) =>
     `- \`${x.route}\`: first rows at ${ms(x.firstRowMs)}, ${x.apiPath} answered at ${ms(x.apiMs)}, ${kb(x.scriptBytes)} of JS fetched as served ` +
-    `(the app sends it uncompressed); shifts ≥ 0.01: ${x.shifts.length ? x.shifts.map((h) => `${h.value.toFixed(3)} at ${ms(h.at)} (${h.moved.join('; ')})`).join(', ') : 'none'}.\n` +
+    `(gzip, as the server sends it, this screen's chunks included); shifts ≥ 0.01: ${x.shifts.length ? x.shifts.map((h) => `${h.value.toFixed(3)} at ${ms(h.at)} (${h.moved.join('; ')})`).join(', ') : 'none'}.\n` +
     `  Waterfall (from navigation start): ${x.waterfall.map((e) => `${e.path.replace(/^\/assets\//, '')} ${Math.round(e.start)}→${Math.round(e.end)} ms`).join(', ')}`,
   );
   const probes = [...r.scans.map((s) => s.probe), ...(r.api?.probes ?? [])];
