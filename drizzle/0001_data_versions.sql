@@ -19,7 +19,18 @@ CREATE TRIGGER "attachments_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TR
 --> statement-breakpoint
 CREATE TRIGGER "bike_models_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "bike_models" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'valves');
 --> statement-breakpoint
-CREATE TRIGGER "bikes_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "bikes" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet', 'valves');
+CREATE TRIGGER "bikes_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "bikes" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
+--> statement-breakpoint
+CREATE TRIGGER "bikes_added_or_removed" AFTER INSERT OR DELETE OR TRUNCATE ON "bikes" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('valves');
+--> statement-breakpoint
+-- Valve trends read a bike's number, model, site, in-service odometer and whether it is retired; a
+-- bike grounded or back in service (as check-ins and scans do) leaves them as they were.
+CREATE TRIGGER "bikes_valve_facts_changed" AFTER UPDATE ON "bikes" FOR EACH ROW
+  WHEN (OLD."fleet_number" IS DISTINCT FROM NEW."fleet_number" OR OLD."model_id" IS DISTINCT FROM NEW."model_id"
+     OR OLD."site_id" IS DISTINCT FROM NEW."site_id" OR OLD."in_service_date" IS DISTINCT FROM NEW."in_service_date"
+     OR OLD."in_service_odometer" IS DISTINCT FROM NEW."in_service_odometer" OR OLD."odometer_unit" IS DISTINCT FROM NEW."odometer_unit"
+     OR ((OLD."status" = 'retired') IS DISTINCT FROM (NEW."status" = 'retired')))
+  EXECUTE FUNCTION "lashline_data_changed"('valves');
 --> statement-breakpoint
 CREATE TRIGGER "defects_data_changed" AFTER INSERT OR UPDATE OR DELETE OR TRUNCATE ON "defects" FOR EACH STATEMENT EXECUTE FUNCTION "lashline_data_changed"('fleet');
 --> statement-breakpoint

@@ -106,6 +106,15 @@ describe('cached valve answers', () => {
     expect((await as.manager.post(`/api/bikes/${bike.id}/check-ins`).send({ odometer: 5100 })).status).toBe(201);
     // A check-in changes no clearance, no valve service and no plan.
     expect((await as.manager.get('/api/valves/warnings')).headers['x-lashline-cache']).toBe('hit');
+    // Grounded and back in service, as scans and check-ins do: trends are made of neither.
+    await t.database.db.execute(sql`update bikes set status = 'out_of_service' where id = ${bike.id}`);
+    await t.database.db.execute(sql`update bikes set status = 'in_service' where id = ${bike.id}`);
+    expect((await as.manager.get('/api/valves/warnings')).headers['x-lashline-cache']).toBe('hit');
+    await t.database.db.execute(sql`update bikes set fleet_number = fleet_number || '-R' where id = ${bike.id}`);
+    expect((await as.manager.get('/api/valves/warnings')).headers['x-lashline-cache']).toBe('miss');
+    await t.database.db.execute(sql`update bikes set status = 'retired' where id = ${bike.id}`);
+    expect((await as.manager.get('/api/valves/warnings')).headers['x-lashline-cache']).toBe('miss');
+    await t.database.db.execute(sql`update bikes set status = 'in_service', fleet_number = replace(fleet_number, '-R', '') where id = ${bike.id}`);
     await t.database.db.execute(sql`update valve_checks set date = date`);
     expect((await as.manager.get('/api/valves/warnings')).headers['x-lashline-cache']).toBe('miss');
     await t.database.db.execute(sql`update service_records set date = date`);
