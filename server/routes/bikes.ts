@@ -3,6 +3,7 @@ import { eq } from 'drizzle-orm';
 import type { AppContext } from '../app';
 import { currentUser, requireRole, signedIn } from '../middleware/auth';
 import { validate } from '../middleware/validate';
+import { ReadCache } from '../cache/read-cache';
 import { bikeModels, bikes } from '../db/schema';
 import { IdParamsSchema } from '../../shared/schemas/common';
 import {
@@ -42,7 +43,9 @@ export function bikeRoutes(ctx: AppContext) {
   }
 
   r.get('/', signedIn(), validate({ query: BikeListQuerySchema }), async (req, res) => {
-    res.json({ items: await listBikes(db, currentUser(req).siteIds, req.valid.query as BikeListQuery) });
+    const { siteIds } = currentUser(req);
+    const q = req.valid.query as BikeListQuery;
+    await ctx.readCache.send(req, res, ReadCache.key('bikes', siteIds, q, ctx.now()), async () => ({ items: await listBikes(db, siteIds, q) }));
   });
 
   r.get('/:id', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {

@@ -1,63 +1,77 @@
-import { and, asc, desc, eq, ilike, inArray, or, sql, type SQL } from 'drizzle-orm';
-import type { Db } from '../db/client';
-import { bikeModels, bikes, odometerReadings, sites, users } from '../db/schema';
+import { desc, eq, sql, type SQL } from 'drizzle-orm';
+import type { Db, DbOrTx } from '../db/client';
+import { jsonRows } from '../db/json-rows';
+import { bikes, odometerReadings, users } from '../db/schema';
 import type { BikeListQuery, BikeSummary, OdometerReading } from '../../shared/schemas/bikes';
 import { fromKm } from '../../shared/domain/units';
 
-/**
- * The latest reading of each bike listed, the highest continuous distance recorded: one probe of the
- * (bike, km) index per bike, whatever the length of its history.
- */
-const latest = (db: Db) =>
-  db
-    .select({
-      bikeId: odometerReadings.bikeId,
-      odometerKm: odometerReadings.odometerKm,
-      value: odometerReadings.value,
-      unit: odometerReadings.unit,
-      date: odometerReadings.date,
-    })
-    .from(odometerReadings)
-    .where(eq(odometerReadings.bikeId, bikes.id))
-    .orderBy(desc(odometerReadings.odometerKm), desc(odometerReadings.createdAt))
-    .limit(1)
-    .as('latest');
+interface BikeRow {
+  id: string;
+  fleet_number: string;
+  vin: string | null;
+  registration: string | null;
+  model_id: string;
+  model_name: string;
+  site_id: string;
+  site_name: string;
+  status: BikeSummary['status'];
+  status_reason: string | null;
+  odometer_unit: BikeSummary['odometerUnit'];
+  in_service_date: string;
+  in_service_odometer: number;
+  l_km: number | null;
+  l_value: number | null;
+  l_unit: BikeSummary['odometerUnit'] | null;
+  l_date: string | null;
+}
 
-export async function listBikes(db: Db, siteIds: string[], f: BikeListQuery & { ids?: string[] } = {}): Promise<BikeSummary[]> {
+const idList = (ids: string[]) => sql.join(ids.map((id) => sql`${id}`), sql`, `);
+
+/**
+ * The bikes as the register lists them, by fleet number, each with its latest reading (the highest
+ * continuous distance recorded: one probe of the (bike, km) index per bike, whatever the length of
+ * its history). Rows come back as one JSON value (see jsonRows).
+ */
+export async function listBikes(db: DbOrTx, siteIds: string[], f: BikeListQuery & { ids?: string[] } = {}): Promise<BikeSummary[]> {
   if (!siteIds.length) return [];
-  const where: SQL[] = [inArray(bikes.siteId, siteIds)];
-  if (f.siteId) where.push(eq(bikes.siteId, f.siteId));
-  if (f.modelId) where.push(eq(bikes.modelId, f.modelId));
-  if (f.status) where.push(eq(bikes.status, f.status));
-  if (f.ids) where.push(inArray(bikes.id, f.ids.length ? f.ids : ['00000000-0000-0000-0000-000000000000']));
+  const where: SQL[] = [sql`b.site_id in (${idList(siteIds)})`];
+  if (f.siteId) where.push(sql`b.site_id = ${f.siteId}`);
+  if (f.modelId) where.push(sql`b.model_id = ${f.modelId}`);
+  if (f.status) where.push(sql`b.status = ${f.status}`);
+  if (f.ids) where.push(f.ids.length ? sql`b.id in (${idList(f.ids)})` : sql`false`);
   if (f.q) {
     const like = `%${f.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    where.push(or(ilike(bikes.fleetNumber, like), ilike(bikes.registration, like))!);
+    where.push(sql`(b.fleet_number ilike ${like} or b.registration ilike ${like})`);
   }
-  const l = latest(db);
-  const rows = await db
-    .select({ bike: bikes, model: { id: bikeModels.id, name: bikeModels.name }, site: { id: sites.id, name: sites.name }, lKm: l.odometerKm, lValue: l.value, lUnit: l.unit, lDate: l.date })
-    .from(bikes)
-    .innerJoin(bikeModels, eq(bikeModels.id, bikes.modelId))
-    .innerJoin(sites, eq(sites.id, bikes.siteId))
-    .leftJoinLateral(l, sql`true`)
-    .where(and(...where))
-    .orderBy(asc(bikes.fleetNumber));
-  return rows.map(({ bike: b, model, site, lKm, lValue, lUnit, lDate }) => ({
+  const rows = await jsonRows<BikeRow>(
+    db,
+    sql`select b.id, b.fleet_number, b.vin, b.registration, m.id as model_id, m.name as model_name, s.id as site_id, s.name as site_name,
+               b.status, b.status_reason, b.odometer_unit, b.in_service_date, b.in_service_odometer,
+               l.odometer_km as l_km, l.value as l_value, l.unit as l_unit, l.date as l_date,
+               row_number() over (order by b.fleet_number) as n
+          from bikes b
+          join bike_models m on m.id = b.model_id
+          join sites s on s.id = b.site_id
+          left join lateral (select r.odometer_km, r.value, r.unit, r.date from odometer_readings r
+                              where r.bike_id = b.id order by r.odometer_km desc, r.created_at desc limit 1) l on true
+         where ${sql.join(where, sql` and `)}`,
+    sql`q.n`,
+  );
+  return rows.map((b) => ({
     id: b.id,
-    fleetNumber: b.fleetNumber,
+    fleetNumber: b.fleet_number,
     vin: b.vin,
     registration: b.registration,
-    model,
-    site,
+    model: { id: b.model_id, name: b.model_name },
+    site: { id: b.site_id, name: b.site_name },
     status: b.status,
-    statusReason: b.statusReason,
-    odometerUnit: b.odometerUnit,
-    inServiceDate: b.inServiceDate,
-    inServiceOdometer: b.inServiceOdometer,
-    latestOdometer: lKm == null ? null : lUnit === b.odometerUnit ? lValue : fromKm(lKm, b.odometerUnit),
-    latestOdometerKm: lKm,
-    latestReadingDate: lDate,
+    statusReason: b.status_reason,
+    odometerUnit: b.odometer_unit,
+    inServiceDate: b.in_service_date,
+    inServiceOdometer: b.in_service_odometer,
+    latestOdometer: b.l_km == null ? null : b.l_unit === b.odometer_unit ? b.l_value : fromKm(b.l_km, b.odometer_unit),
+    latestOdometerKm: b.l_km,
+    latestReadingDate: b.l_date,
   }));
 }
 

@@ -55,7 +55,7 @@ describe('cached due list', () => {
     expect(packed.headers['content-encoding']).toBe('gzip');
     expect(packed.headers.vary).toMatch(/Accept-Encoding/);
     expect(packed.body).toEqual(plain.body);
-    // Other answers are compressed on the way out.
+    // The fleet register is cached too, and compressed.
     const fleet = await as.manager.raw.get('/api/bikes').set('Accept-Encoding', 'gzip');
     expect(fleet.status).toBe(200);
     expect(JSON.stringify(fleet.body).length).toBeGreaterThan(1024);
@@ -64,10 +64,15 @@ describe('cached due list', () => {
 
   it('shows a check-in at once: the write moves the data version on', async () => {
     await as.manager.get('/api/due?within=7');
+    const before = (await as.manager.get('/api/bikes')).body.items.find((b: { id: string }) => b.id === bike.id);
     expect((await as.manager.post(`/api/bikes/${bike.id}/check-ins`).send({ odometer: 5010 })).status).toBe(201);
     const after = await as.manager.get('/api/due?within=7');
     expect(after.headers['x-lashline-cache']).toBe('miss');
     expect(oilOf(after.body)?.status).toBe('overdue');
+    const register = await as.manager.get('/api/bikes');
+    expect(register.headers['x-lashline-cache']).toBe('miss');
+    expect(register.body.items.find((b: { id: string }) => b.id === bike.id).latestOdometer).toBe(5010);
+    expect(before.latestOdometer).toBe(4990);
   });
 
   it('sees a change written straight to the database, outside the app (another instance, an import)', async () => {
