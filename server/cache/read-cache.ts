@@ -6,7 +6,6 @@ import { LRUCache } from 'lru-cache';
 import { sql } from 'drizzle-orm';
 import type { Db } from '../db/client';
 
-/** A cached answer: the JSON body as the bytes sent, and the data version it was read at. */
 /**
  * 'fleet' moves on with any write to the fleet's data; 'people' only with people, their sites and the
  * sites; 'valves' only with what valve trends are made of (valve checks and readings, services done,
@@ -14,6 +13,7 @@ import type { Db } from '../db/client';
  */
 export type DataScope = 'fleet' | 'people' | 'valves';
 
+/** A cached answer: the JSON body as the bytes sent, and the data version it was read at. */
 interface Entry {
   version: number;
   body: Buffer;
@@ -30,10 +30,11 @@ export interface CachedAnswer {
 }
 
 /**
- * Answers of heavy fleet-wide reads (the due list, valve warnings) kept as JSON text, each valid
- * while the database's fleet data version has not moved. The version is read first, then the data:
- * a write that commits in between only makes the entry look older than it is, never newer, so a
- * stale answer is never served. Concurrent misses for one key share one computation.
+ * Answers of heavy fleet-wide reads (the due list, the fleet register, valve warnings and trends)
+ * kept as JSON bytes, each valid while the data version of its scope has not moved. The version is
+ * read first, then the data: a write that commits in between only makes the entry look older than it
+ * is, never newer, so a stale answer is never served. Concurrent misses for one key share one
+ * computation.
  */
 export class ReadCache {
   private readonly entries: LRUCache<string, Entry>;
