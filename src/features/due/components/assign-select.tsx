@@ -20,7 +20,7 @@ export function AssignSelect({ item }: { item: DueItem }) {
     <select
       aria-label={`Technician for ${item.fleetNumber}, ${item.item}`}
       title="Open work already given to each technician is shown in brackets."
-      className="min-h-tap w-56 rounded-card border-2 border-ink-line bg-paper-raised px-2"
+      className="min-h-tap w-64 max-w-full rounded-card border-2 border-ink-line bg-paper-raised px-2"
       value={item.assignee?.id ?? ''}
       disabled={assign.isPending || !people.data}
       onChange={(e) => {
