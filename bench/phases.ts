@@ -113,11 +113,12 @@ export async function apiPhase(w: Worker): Promise<ApiFigures> {
     const run = checkInLoader(w.url, s, targets);
     probes.push(await probe(w, 'POST /api/bikes/:id/check-ins (one request)', () => run({ connections: 1, amount: 1 })));
     // The warm-up counts its answers too (amount, not duration), so none is abandoned half-done.
-    const warm = await run({ connections: 20, amount: 40 });
+    const warm = await run({ connections: 20, amount: 100 });
     await settle(w);
     const before = await w.call<number>('readings');
-    // About ten seconds at the rate the warm-up reached, and never fewer than a few per connection.
-    const amount = Math.min(4000, Math.max(60, Math.round(warm.perSecond * 10)));
+    // About ten seconds at the rate the warm-up reached, and never fewer than 1,000: autocannon counts
+    // its duration in whole ticks, so a run of two or three seconds understates the rate by a third.
+    const amount = Math.min(4000, Math.max(1000, Math.round(warm.perSecond * 10)));
     await w.call('cpuStart');
     const main = await run({ connections: 20, amount });
     await settle(w);
