@@ -1,31 +1,15 @@
 import type { Rng } from '../server/demo/prng';
 import type { ModelRow } from '../server/demo/scenario';
+import { round10, serviceValve, type SimulatedReading, type WearingValve } from '../server/demo/valve-wear';
 
 /** Valve clearances that close up with distance (seat wear), read and put back to mid-spec when out of it. */
 
-interface Valve {
-  cylinder: number;
-  side: 'intake' | 'exhaust';
-  position: number;
-  clearance: number;
-  /** µm per 1000 km; exhaust valves close up faster (common practice). */
-  closing: number;
-  shim: number | null;
-}
-
-export interface ValveReadingCells {
-  cylinder: number;
-  side: 'intake' | 'exhaust';
-  position: number;
-  asFoundUm: number;
-  asLeftUm: number | null;
-  shimBeforeUm: number | null;
-  shimAfterUm: number | null;
-}
+type Valve = WearingValve;
+/** One valve reading as the bulk loader writes it. */
+export type ValveReadingCells = SimulatedReading;
 
 const spec = (m: ModelRow, side: 'intake' | 'exhaust'): [number, number] =>
   side === 'intake' ? [m.intakeMinUm, m.intakeMaxUm] : [m.exhaustMinUm, m.exhaustMaxUm];
-const round10 = (um: number) => Math.round(um / 10) * 10;
 
 export function makeValves(m: ModelRow, rng: Rng): Valve[] {
   const valves: Valve[] = [];
@@ -56,19 +40,6 @@ export function measureValves(m: ModelRow, valves: Valve[], kmSinceLast: number,
   return valves.map((v) => {
     v.clearance -= (v.closing * kmSinceLast) / 1000;
     const asFoundUm = Math.max(0, round10(v.clearance + rng.range(-6, 6)));
-    const [lo, hi] = spec(m, v.side);
-    const r: ValveReadingCells = { cylinder: v.cylinder, side: v.side, position: v.position, asFoundUm, asLeftUm: null, shimBeforeUm: null, shimAfterUm: null };
-    if (asFoundUm >= lo && asFoundUm <= hi) return r;
-    const target = (lo + hi) / 2;
-    if (v.shim !== null) {
-      // New shim = old shim + measured − target (common practice for shim-under-bucket valves).
-      const next = nearestShim(m, v.shim + asFoundUm - target);
-      Object.assign(r, { shimBeforeUm: v.shim, shimAfterUm: next, asLeftUm: asFoundUm + v.shim - next });
-      v.shim = next;
-    } else {
-      r.asLeftUm = round10(target);
-    }
-    v.clearance = r.asLeftUm!;
-    return r;
+    return serviceValve(v, asFoundUm, spec(m, v.side), (um) => nearestShim(m, um));
   });
 }

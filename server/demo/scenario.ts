@@ -3,6 +3,7 @@ import type {
   valveChecks, valveReadings,
 } from '../db/schema';
 import { createRng, type Rng } from './prng';
+import { round10, serviceValve, type Side, type WearingValve } from './valve-wear';
 
 /**
  * The invented Saltmarsh fleet as plain rows, generated from seeded randomness
@@ -28,7 +29,6 @@ export type ValveReadingRow = Row<typeof valveReadings, never>;
 export type DefectRow = Row<typeof defects, never>;
 export type ShimStockRow = Row<typeof shimStock, never>;
 type Category = ServiceItemRow['category'];
-type Side = 'intake' | 'exhaust';
 
 export interface Story {
   /** Cylinder-2 exhaust closing up at every check; leaves spec before its next check. */
@@ -159,7 +159,6 @@ const SHIMS_AT_ZERO: Record<SiteKey, number[]> = { quay: [1950, 2450, 2500, 2550
 const KM_PER_MILE = 1.609344;
 const RESET_VALUE = 12;
 const round6 = (x: number) => Math.round(x * 1e6) / 1e6;
-const round10 = (um: number) => Math.round(um / 10) * 10;
 
 // ── Riding: how far each bike goes each day ──────────────────────────────────
 // Chance of going out, January to December. Training runs Monday to Saturday.
@@ -221,10 +220,9 @@ function factorFor(p: Plan, targetKm: number): number {
 }
 
 // ── Valves ───────────────────────────────────────────────────────────────────
-interface Valve {
-  cylinder: number; side: Side; position: number; clearance: number;
-  /** Closing-up rate, µm per 1000 km (seat recession; mostly on exhaust valves). */
-  closing: number; shim: number | null; script?: number[];
+/** Closing-up (`closing`) is mostly seat recession, mostly on exhaust valves. */
+interface Valve extends WearingValve {
+  script?: number[];
 }
 function makeValves(p: Plan, rng: Rng): Valve[] {
   const m = p.model;
@@ -263,21 +261,7 @@ function measure(p: Plan, valves: Valve[], kmSinceLast: number, nth: number, rng
     const noise = rng.range(-6, 6);
     const asFoundUm = v.script?.[nth] ?? round10(v.clearance + noise);
     if (v.script) v.clearance = asFoundUm;
-    const [lo, hi] = p.model[v.side];
-    const reading = { cylinder: v.cylinder, side: v.side, position: v.position, asFoundUm,
-      asLeftUm: null as number | null, shimBeforeUm: null as number | null, shimAfterUm: null as number | null };
-    if (asFoundUm >= lo && asFoundUm <= hi) return reading;
-    const target = (lo + hi) / 2;
-    if (v.shim !== null) {
-      // New shim = old shim + measured − target (workshop manuals).
-      const next = nearestShim(v.shim + asFoundUm - target);
-      Object.assign(reading, { shimBeforeUm: v.shim, shimAfterUm: next, asLeftUm: asFoundUm + v.shim - next });
-      v.shim = next;
-    } else {
-      reading.asLeftUm = round10(target);
-    }
-    v.clearance = reading.asLeftUm!;
-    return reading;
+    return serviceValve(v, asFoundUm, p.model[v.side], nearestShim);
   });
 }
 
