@@ -17,6 +17,9 @@ export async function jsonTuples<T extends unknown[]>(db: DbOrTx, query: SQL, or
   return aggregate<T>(db, sql`json_agg(q.a${orderBy ? sql` order by ${orderBy}` : sql``})`, query);
 }
 
+/** Values for `in (…)`, one parameter each. An empty list matches nothing. */
+export const sqlList = (values: readonly string[]) => (values.length ? sql.join(values.map((v) => sql`${v}`), sql`, `) : sql`null`);
+
 async function aggregate<T>(db: DbOrTx, agg: SQL, query: SQL): Promise<T[]> {
   const { rows } = (await db.execute(sql`select coalesce(${agg}, '[]')::text as v from (${query}) q`)) as unknown as { rows: { v: string }[] };
   return JSON.parse(rows[0].v) as T[];

@@ -1,6 +1,6 @@
 import { desc, eq, sql, type SQL } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../db/client';
-import { jsonRows } from '../db/json-rows';
+import { jsonRows, sqlList } from '../db/json-rows';
 import { bikes, odometerReadings, users } from '../db/schema';
 import type { BikeListQuery, BikeSummary, OdometerReading } from '../../shared/schemas/bikes';
 import { fromKm } from '../../shared/domain/units';
@@ -25,8 +25,6 @@ interface BikeRow {
   l_date: string | null;
 }
 
-const idList = (ids: string[]) => sql.join(ids.map((id) => sql`${id}`), sql`, `);
-
 /**
  * The bikes as the register lists them, by fleet number, each with its latest reading (the highest
  * continuous distance recorded: one probe of the (bike, km) index per bike, whatever the length of
@@ -34,11 +32,11 @@ const idList = (ids: string[]) => sql.join(ids.map((id) => sql`${id}`), sql`, `)
  */
 export async function listBikes(db: DbOrTx, siteIds: string[], f: BikeListQuery & { ids?: string[] } = {}): Promise<BikeSummary[]> {
   if (!siteIds.length) return [];
-  const where: SQL[] = [sql`b.site_id in (${idList(siteIds)})`];
+  const where: SQL[] = [sql`b.site_id in (${sqlList(siteIds)})`];
   if (f.siteId) where.push(sql`b.site_id = ${f.siteId}`);
   if (f.modelId) where.push(sql`b.model_id = ${f.modelId}`);
   if (f.status) where.push(sql`b.status = ${f.status}`);
-  if (f.ids) where.push(f.ids.length ? sql`b.id in (${idList(f.ids)})` : sql`false`);
+  if (f.ids) where.push(sql`b.id in (${sqlList(f.ids)})`);
   if (f.q) {
     const like = `%${f.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
     where.push(sql`(b.fleet_number ilike ${like} or b.registration ilike ${like})`);

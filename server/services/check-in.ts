@@ -66,6 +66,13 @@ async function lockBikes(tx: Tx, ids: string[]) {
     .for('update', { of: bikes });
 }
 
+/** Why this person cannot check this bike in, or null: not theirs to see, or retired. */
+function refusal(user: SessionUser, row: Awaited<ReturnType<typeof lockBikes>>[number] | undefined) {
+  if (!row || !canSeeSite(user, row.bike.siteId)) return notFound('That bike');
+  if (row.bike.status === 'retired') return conflict('This bike is retired. A manager can bring it back before it is checked in.');
+  return null;
+}
+
 const checkInRow = (user: SessionUser, bike: LockedBike, input: CheckIn, date: string, odometerKm: number, now: Date) => ({
   bikeId: bike.id, date, value: input.odometer, unit: bike.odometerUnit, odometerKm, reset: !!input.reset, source: 'check-in' as const, recordedBy: user.id, createdAt: now,
 });
@@ -80,9 +87,9 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
   return db.transaction(async (tx) => {
     // Lock the bike's row so concurrent check-ins of one bike are judged one after the other.
     const [row] = await lockBikes(tx, [bikeId]);
-    if (!row || !canSeeSite(user, row.bike.siteId)) throw notFound('That bike');
+    const refused = refusal(user, row);
+    if (refused) throw refused;
     const bike = row.bike;
-    if (bike.status === 'retired') throw conflict('This bike is retired. A manager can bring it back before it is checked in.');
     const today = todayInZone(row.timeZone, now);
     const date = input.date ?? today;
     const odometerKm = judgeReading(bike, input, date, today, await readingContext(tx, bikeId, date));
@@ -168,8 +175,8 @@ export async function recordCheckIns(db: Db, jobs: CheckInJob[], now: Date): Pro
     const dated: { i: number; job: CheckInJob; bike: LockedBike; date: string; today: string }[] = [];
     for (const [i, job] of jobs.entries()) {
       const row = locked.get(job.bikeId);
-      if (!row || !canSeeSite(job.user, row.bike.siteId)) outcomes[i] = { ok: false, error: notFound('That bike') };
-      else if (row.bike.status === 'retired') outcomes[i] = { ok: false, error: conflict('This bike is retired. A manager can bring it back before it is checked in.') };
+      const refused = refusal(job.user, row);
+      if (refused || !row) outcomes[i] = { ok: false, error: refused };
       else {
         const today = todayInZone(row.timeZone, now);
         dated.push({ i, job, bike: row.bike, date: job.input.date ?? today, today });

@@ -1,6 +1,6 @@
 import { asc, inArray, sql, type SQL } from 'drizzle-orm';
 import type { DbOrTx } from '../db/client';
-import { jsonTuples } from '../db/json-rows';
+import { jsonTuples, sqlList } from '../db/json-rows';
 import { serviceItems } from '../db/schema';
 import type { KmReading } from '../../shared/domain/usage';
 import { addDaysIso, todayInZone } from '../../shared/domain/dates';
@@ -33,14 +33,12 @@ export const doneKey = (bikeId: string, itemId: string) => `${bikeId}:${itemId}`
 
 const USAGE_WINDOW_DAYS = 90;
 
-const idList = (ids: string[]) => sql.join(ids.map((id) => sql`${id}`), sql`, `);
-
 /**
  * Reads the inputs for the given bikes, or for every bike not retired. Rows come back as JSON
  * (see jsonTuples): at thousands of bikes that is most of the time saved on embedded PGlite.
  */
 export async function loadDueInputs(db: DbOrTx, now: Date, bikeIds?: string[]): Promise<DueInputs> {
-  const scope = bikeIds ? sql`b.id in (${bikeIds.length ? idList(bikeIds) : sql`null`})` : sql`b.status <> 'retired'`;
+  const scope = bikeIds ? sql`b.id in (${sqlList(bikeIds)})` : sql`b.status <> 'retired'`;
   const bikeRows = await jsonTuples<[string, string, string, string, number, OdometerUnit, string]>(
     db,
     sql`select json_build_array(b.id, b.site_id, b.model_id, b.in_service_date, b.in_service_odometer, b.odometer_unit, s.time_zone) as a

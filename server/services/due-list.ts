@@ -1,6 +1,6 @@
 import { sql, type SQL } from 'drizzle-orm';
 import type { DbOrTx } from '../db/client';
-import { jsonRows, jsonTuples } from '../db/json-rows';
+import { jsonRows, jsonTuples, sqlList } from '../db/json-rows';
 import type { ComputedDue } from './due';
 import type { BikeSummary } from '../../shared/schemas/bikes';
 import type { DueItem, DueQuery } from '../../shared/schemas/due';
@@ -42,15 +42,13 @@ interface DueRow {
   assignee_name: string | null;
 }
 
-const ids = (list: string[]) => sql.join(list.map((id) => sql`${id}`), sql`, `);
-
 /**
  * The stored due states as the screens list them: overdue first, then by due date, then fleet
  * number (then item, by id, to make the order total); with the open task (the oldest, if there are two) and who has it.
  */
 export async function listDue(db: DbOrTx, siteIds: string[], f: DueFilter, now: Date): Promise<DueItem[]> {
   if (!siteIds.length) return [];
-  const where: SQL[] = [sql`b.site_id in (${ids(siteIds)})`, sql`b.status <> 'retired'`];
+  const where: SQL[] = [sql`b.site_id in (${sqlList(siteIds)})`, sql`b.status <> 'retired'`];
   if (f.bikeId) where.push(sql`b.id = ${f.bikeId}`);
   if (f.siteId) where.push(sql`b.site_id = ${f.siteId}`);
   if (f.modelId) where.push(sql`b.model_id = ${f.modelId}`);
@@ -125,7 +123,7 @@ export async function openTasks(db: DbOrTx, bikeIds: string[]): Promise<Map<stri
     db,
     sql`select json_build_array(t.bike_id, t.service_item_id, t.id, u.id, u.name) as a, t.raised_at, t.id
           from service_tasks t left join users u on u.id = t.assignee_id
-         where t.bike_id in (${ids(bikeIds)}) and t.status in ('open', 'in_progress')`,
+         where t.bike_id in (${sqlList(bikeIds)}) and t.status in ('open', 'in_progress')`,
     sql`q.raised_at desc, q.id desc`,
   );
   // Latest first, so the oldest open task of an item is the one kept, as in listDue.

@@ -1,6 +1,6 @@
 import { and, eq, inArray, sql } from 'drizzle-orm';
 import type { DbOrTx } from '../db/client';
-import { jsonTuples } from '../db/json-rows';
+import { jsonTuples, sqlList } from '../db/json-rows';
 import { bikeModels, bikes } from '../db/schema';
 import { valveHistories, valveLayout, type StoredValveReading } from '../../shared/domain/valves';
 import { clearanceTrend } from '../../shared/domain/trend';
@@ -17,9 +17,7 @@ type ReadingTuple = [string, string, number, number, 'intake' | 'exhaust', numbe
 export async function readingsForBikes(db: DbOrTx, bikeIds: string[], siteIds?: string[]) {
   const by = new Map<string, StoredValveReading[]>();
   if (!bikeIds.length) return by;
-  const scope = siteIds
-    ? sql`c.bike_id in (select id from bikes where site_id in (${sql.join(siteIds.map((id) => sql`${id}`), sql`, `)}))`
-    : sql`c.bike_id in (${sql.join(bikeIds.map((id) => sql`${id}`), sql`, `)})`;
+  const scope = sql`c.bike_id in (${siteIds ? sql`select id from bikes where site_id in (${sqlList(siteIds)})` : sqlList(bikeIds)})`;
   const rows = await jsonTuples<ReadingTuple>(
     db,
     sql`select json_build_array(c.bike_id, c.date, c.odometer_km, r.cylinder, r.side, r.position, r.as_found_um, r.as_left_um, r.shim_before_um, r.shim_after_um) as a,
@@ -43,7 +41,7 @@ export async function readingsForBikes(db: DbOrTx, bikeIds: string[], siteIds?: 
  */
 async function nextValveCheckKm(db: DbOrTx, bikeIds: string[], siteIds?: string[]) {
   if (!bikeIds.length) return new Map<string, number | null>();
-  const scope = siteIds ? sql`b.site_id in (${sql.join(siteIds.map((id) => sql`${id}`), sql`, `)})` : sql`b.id in (${sql.join(bikeIds.map((id) => sql`${id}`), sql`, `)})`;
+  const scope = siteIds ? sql`b.site_id in (${sqlList(siteIds)})` : sql`b.id in (${sqlList(bikeIds)})`;
   const rows = await jsonTuples<[string, string, number, OdometerUnit, number | null, number | null, string | null, number | null]>(
     db,
     sql`select json_build_array(b.id, b.in_service_date, b.in_service_odometer, b.odometer_unit, i.every_km, i.first_at_km, l.date, l.odometer_km) as a
