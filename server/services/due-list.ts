@@ -4,8 +4,6 @@ import { jsonRows, jsonTuples, sqlList } from '../db/json-rows';
 import type { ComputedDue } from './due';
 import type { BikeSummary } from '../../shared/schemas/bikes';
 import type { DueItem, DueQuery } from '../../shared/schemas/due';
-import type { DueStatus } from '../../shared/domain/due';
-import type { OdometerUnit } from '../../shared/domain/units';
 import { fromKm } from '../../shared/domain/units';
 import { addDaysIso, todayInZone } from '../../shared/domain/dates';
 
@@ -15,32 +13,8 @@ export interface DueFilter extends Partial<DueQuery> {
   all?: boolean;
 }
 
-interface DueRow {
-  bike_id: string;
-  fleet_number: string;
-  site_id: string;
-  site_name: string;
-  time_zone: string;
-  model_name: string;
-  item_id: string;
-  item: string;
-  category: string;
-  safety_critical: boolean;
-  status: DueStatus;
-  due_date: string | null;
-  due_at_km: number | null;
-  due_by_date: string | null;
-  trigger: 'km' | 'calendar' | null;
-  remaining_km: number | null;
-  remaining_days: number | null;
-  usage_km_per_day: number | null;
-  odometer_unit: OdometerUnit;
-  baseline_date: string | null;
-  bike_status: string;
-  task_id: string | null;
-  assignee_id: string | null;
-  assignee_name: string | null;
-}
+/** A due item as the query gives it: everything but the distance in the bike's unit, plus what the window cut needs. */
+type DueRow = Omit<DueItem, 'remainingInUnit'> & { timeZone: string; n: number };
 
 /**
  * The stored due states as the screens list them: overdue first, then by due date, then fleet
@@ -59,11 +33,12 @@ export async function listDue(db: DbOrTx, siteIds: string[], f: DueFilter, now: 
   if (!f.all) where.push(sql`(d.status = 'overdue' or d.due_date <= ${addDaysIso(todayInZone('UTC', now), within + 1)})`);
   const rows = await jsonRows<DueRow>(
     db,
-    sql`select b.id as bike_id, b.fleet_number, b.site_id, s.name as site_name, s.time_zone, m.name as model_name,
-               i.id as item_id, i.name as item, i.category, i.safety_critical,
-               d.status, d.due_date, d.due_at_km, d.due_by_date, d.trigger, d.remaining_km, d.remaining_days,
-               d.usage_km_per_day, b.odometer_unit, d.baseline_date, b.status as bike_status,
-               t.id as task_id, u.id as assignee_id, u.name as assignee_name,
+    sql`select b.id as "bikeId", b.fleet_number as "fleetNumber", b.site_id as "siteId", s.name as "siteName", s.time_zone as "timeZone",
+               m.name as "modelName", i.id as "itemId", i.name as item, i.category, i.safety_critical as "safetyCritical",
+               d.status, d.due_date as "dueDate", d.due_at_km as "dueAtKm", d.due_by_date as "dueByDate", d.trigger,
+               d.remaining_km as "remainingKm", d.remaining_days as "remainingDays", d.usage_km_per_day as "usageKmPerDay",
+               b.odometer_unit as "odometerUnit", d.baseline_date as "lastDoneDate", b.status as "bikeStatus", t.id as "taskId",
+               case when u.id is null then null else json_build_object('id', u.id, 'name', u.name) end as assignee,
                row_number() over (order by d.status = 'overdue' desc, d.due_date asc, b.fleet_number asc, d.service_item_id asc) as n
           from due_states d
           join bikes b on b.id = d.bike_id
@@ -82,33 +57,9 @@ export async function listDue(db: DbOrTx, siteIds: string[], f: DueFilter, now: 
   const limits = new Map<string, string>();
   const limitIn = (zone: string) => limits.get(zone) ?? limits.set(zone, addDaysIso(todayInZone(zone, now), within)).get(zone)!;
   const out: DueItem[] = [];
-  for (const r of rows) {
-    if (!f.all && r.status !== 'overdue' && (!r.due_date || r.due_date > limitIn(r.time_zone))) continue;
-    out.push({
-      bikeId: r.bike_id,
-      fleetNumber: r.fleet_number,
-      siteId: r.site_id,
-      siteName: r.site_name,
-      modelName: r.model_name,
-      itemId: r.item_id,
-      item: r.item,
-      category: r.category,
-      safetyCritical: r.safety_critical,
-      status: r.status,
-      dueDate: r.due_date,
-      dueAtKm: r.due_at_km,
-      dueByDate: r.due_by_date,
-      trigger: r.trigger,
-      remainingKm: r.remaining_km,
-      remainingDays: r.remaining_days,
-      usageKmPerDay: r.usage_km_per_day,
-      odometerUnit: r.odometer_unit,
-      remainingInUnit: r.remaining_km == null ? null : fromKm(r.remaining_km, r.odometer_unit),
-      lastDoneDate: r.baseline_date,
-      bikeStatus: r.bike_status,
-      taskId: r.task_id,
-      assignee: r.assignee_id ? { id: r.assignee_id, name: r.assignee_name! } : null,
-    });
+  for (const { timeZone, n: _order, ...r } of rows) {
+    if (!f.all && r.status !== 'overdue' && (!r.dueDate || r.dueDate > limitIn(timeZone))) continue;
+    out.push({ ...r, remainingInUnit: r.remainingKm == null ? null : fromKm(r.remainingKm, r.odometerUnit) });
   }
   return out;
 }
