@@ -70,8 +70,8 @@ export function createApp(deps: AppDeps): Express {
   const ctx: AppContext = {
     database,
     config,
-    sessions: new DbSessionStore(database.db),
-    readCache: new ReadCache(database.db),
+    sessions: new DbSessionStore(database.db, database.changes),
+    readCache: new ReadCache(database.db, { changes: database.changes }),
     checkIns: new CheckInQueue(database.db, deps.now ?? (() => new Date())),
     now: deps.now ?? (() => new Date()),
     sessionSecret: deps.sessionSecret,

@@ -4,7 +4,7 @@ import { gzip } from 'node:zlib';
 import type { Request, Response } from 'express';
 import { LRUCache } from 'lru-cache';
 import { sql } from 'drizzle-orm';
-import type { Db } from '../db/client';
+import type { ChangeFeed, Db } from '../db/client';
 
 /**
  * 'fleet' moves on with any write to the fleet's data; 'people' only with people, their sites and the
@@ -41,12 +41,22 @@ export class ReadCache {
   private readonly pending = new Map<string, Promise<Entry>>();
   /** The version read once per request: every cached read in it is checked against that one read. */
   private readonly perRequest = new WeakMap<object, Promise<Record<DataScope, number>>>();
+  /**
+   * With a change feed: the versions as last read, until a commit moves any of them on. Dropped
+   * before the committing call returns, so a read after a write always sees the new versions.
+   */
+  private known?: Promise<Record<DataScope, number>>;
+  private readonly feed?: ChangeFeed;
 
   constructor(
     private readonly db: Db,
-    opts: { maxBytes?: number } = {},
+    opts: { maxBytes?: number; changes?: ChangeFeed } = {},
   ) {
     this.entries = new LRUCache<string, Entry>({ maxSize: opts.maxBytes ?? 32 * 1024 * 1024, sizeCalculation: (e) => e.body.length + 200 });
+    this.feed = opts.changes;
+    this.feed?.on('lashline_data', () => {
+      this.known = undefined;
+    });
   }
 
   async version(scope: DataScope = 'fleet'): Promise<number> {
@@ -54,7 +64,17 @@ export class ReadCache {
   }
 
   /** Every scope's version in one read. No row (a database restored from outside the app): nothing can be trusted, so nothing is cached. */
-  async versions(): Promise<Record<DataScope, number>> {
+  versions(): Promise<Record<DataScope, number>> {
+    if (!this.feed) return this.readVersions();
+    const read = (this.known ??= this.readVersions());
+    // A failed read is not kept.
+    read.catch(() => {
+      if (this.known === read) this.known = undefined;
+    });
+    return read;
+  }
+
+  private async readVersions(): Promise<Record<DataScope, number>> {
     const { rows } = (await this.db.execute(sql`select scope, n from data_versions`)) as unknown as { rows: { scope: string; n: number | string }[] };
     const of = (scope: DataScope) => {
       const row = rows.find((r) => r.scope === scope);

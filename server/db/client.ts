@@ -16,7 +16,39 @@ export interface Database {
   kind: DbKind;
   /** The PGlite instance when embedded (for backups and data-directory dumps). */
   pglite?: PGlite;
+  /**
+   * Commit notifications, on embedded PGlite only: there this process is the database's one user and
+   * a notification reaches its listeners before the committing call returns, so memory kept in step
+   * with them is never behind the database. On a PostgreSQL server they would arrive later, over
+   * another connection, so nothing is kept there.
+   */
+  changes?: ChangeFeed;
   close(): Promise<void>;
+}
+
+/** 'lashline_data': the data scopes a commit moved on; 'lashline_session': a session id changed or gone, or '*'. */
+export type ChangeChannel = 'lashline_data' | 'lashline_session';
+export interface ChangeFeed {
+  on(channel: ChangeChannel, listener: (payload: string) => void): () => void;
+}
+
+/** PGlite's LISTEN: one per channel, fanned out to the listeners in this process. */
+async function pgliteChanges(client: PGlite): Promise<ChangeFeed> {
+  const listeners = new Map<ChangeChannel, Set<(payload: string) => void>>();
+  for (const channel of ['lashline_data', 'lashline_session'] as const) {
+    const set = new Set<(payload: string) => void>();
+    listeners.set(channel, set);
+    await client.listen(channel, (payload) => {
+      for (const l of set) l(payload);
+    });
+  }
+  return {
+    on(channel, listener) {
+      const set = listeners.get(channel)!;
+      set.add(listener);
+      return () => set.delete(listener);
+    },
+  };
 }
 
 export const MIGRATIONS_FOLDER = new URL('../../drizzle', import.meta.url).pathname;
@@ -50,7 +82,7 @@ export async function openDatabase(opts: OpenOptions): Promise<Database> {
   await client.waitReady;
   const db = drizzlePglite({ client, schema }) as unknown as Db;
   if (opts.migrate !== false) await migratePglite(db as never, { migrationsFolder: MIGRATIONS_FOLDER });
-  return { db, kind: 'pglite', pglite: client, close: () => client.close() };
+  return { db, kind: 'pglite', pglite: client, changes: await pgliteChanges(client), close: () => client.close() };
 }
 
 /** A transaction handle; code that must run inside or outside a transaction takes `DbOrTx`. */

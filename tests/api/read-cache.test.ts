@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { agent, manualClock, testApp, type Agent, type TestContext } from '../support/test-app';
 import { PASSWORD, makeBike, makeServiceItem, world } from '../support/factories';
@@ -160,6 +160,42 @@ describe('data version', () => {
       }),
     ).rejects.toThrow('roll back');
     expect(await cache.version()).toBe(v1 + 2);
+  });
+
+  // On embedded PGlite the server is the database's only user and NOTIFY reaches it as the commit
+  // returns (PostgreSQL documentation, NOTIFY: delivered on commit, none on rollback).
+  it('on embedded PGlite, reads the versions once until a commit moves them on', async () => {
+    if (!t.database.changes) return expect(t.database.kind).toBe('postgres');
+    const cache = new ReadCache(t.database.db, { changes: t.database.changes });
+    const reads = vi.spyOn(t.database.db, 'execute');
+    try {
+      const v0 = await cache.version();
+      expect(await cache.version()).toBe(v0);
+      expect(await cache.version('people')).toBeGreaterThan(0);
+      expect(reads).toHaveBeenCalledTimes(1);
+      // A write straight on the database, not through the app: seen by the very next read.
+      await t.database.pglite!.query(`update sites set name = name`);
+      expect(await cache.version()).toBe(v0 + 1);
+      expect(reads).toHaveBeenCalledTimes(2);
+      await expect(
+        t.database.db.transaction(async (tx) => {
+          await tx.update(sites).set({ name: 'Never' }).where(eq(sites.id, w.siteB.id));
+          throw new Error('roll back');
+        }),
+      ).rejects.toThrow('roll back');
+      expect(await cache.version()).toBe(v0 + 1);
+      expect(reads).toHaveBeenCalledTimes(2);
+      // The due list of a signed-in person: a change made outside the app is served at once.
+      const before = oilOf((await as.manager.get('/api/due?within=7')).body)!.status;
+      const other = before === 'soon' ? 'overdue' : 'soon';
+      await t.database.pglite!.query(`update due_states set status = $1 where bike_id = $2`, [other, bike.id]);
+      const after = await as.manager.get('/api/due?within=7');
+      expect(after.headers['x-lashline-cache']).toBe('miss');
+      expect(oilOf(after.body)?.status).toBe(other);
+      await t.database.pglite!.query(`update due_states set status = $1 where bike_id = $2`, [before, bike.id]);
+    } finally {
+      reads.mockRestore();
+    }
   });
 
   it('computes a missed answer once for many requests at the same moment', async () => {

@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import request from 'supertest';
 import { eq } from 'drizzle-orm';
 import { agent, manualClock, testApp, type TestContext } from '../support/test-app';
@@ -34,6 +34,22 @@ describe('sessions (OWASP ASVS 5.0 V7)', () => {
     const [row] = await t.database.db.select().from(sessions).where(eq(sessions.userId, w.people.desk.id)).limit(1);
     await t.database.db.update(sessions).set({ expire: new Date(Date.now() - 1000) }).where(eq(sessions.userId, w.people.desk.id));
     expect(row).toBeTruthy();
+    expect((await a.get('/api/auth/me')).status).toBe(401);
+  });
+
+  it('ends a session removed from the database at once, and reads a live one only once on embedded PGlite (V7.4.1)', async () => {
+    const a = await agent(t.app);
+    await a.login(w.people.desk.email, PASSWORD);
+    // The spy calls through to PGlite and keeps the statements it was given.
+    const query = t.database.pglite ? vi.spyOn(t.database.pglite, 'query') : undefined;
+    try {
+      for (let i = 0; i < 3; i++) expect((await a.get('/api/auth/me')).status).toBe(200);
+      if (query) expect(query.mock.calls.filter(([q]) => /from "sessions"/.test(String(q))).length).toBeLessThanOrEqual(1);
+    } finally {
+      query?.mockRestore();
+    }
+    // Straight on the database, not through the app (an operator ending every session by hand).
+    await t.database.db.delete(sessions).where(eq(sessions.userId, w.people.desk.id));
     expect((await a.get('/api/auth/me')).status).toBe(401);
   });
 
