@@ -7,10 +7,14 @@ export const formatKm = (v: number | null | undefined) => (v == null ? '—' : `
 export const formatRate = (v: number | null | undefined, unit = 'km') => (v == null ? '—' : `${nf1.format(v)} ${unit}/day`);
 
 /** A calendar date as people read it; the value stays an ISO date. */
+// One formatter each: toLocaleString builds a new one on every call, which a list of hundreds of rows feels.
+const dateFormat = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+const dateTimeFormat = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
+
 export function formatDate(iso: string | null | undefined) {
   if (!iso) return '—';
   const [y, m, d] = iso.split('-').map(Number);
-  return new Date(Date.UTC(y, m - 1, d)).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+  return dateFormat.format(new Date(Date.UTC(y, m - 1, d)));
 }
 
 /** Distance left before an item is due, in the bike's unit; once past, how far over. */
@@ -58,5 +62,5 @@ export function addDaysIso(iso: string, days: number) {
 /** An instant (ISO timestamp) as people read it, in this device's time zone. */
 export function formatDateTime(iso: string | null | undefined) {
   if (!iso) return '—';
-  return new Date(iso).toLocaleString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
+  return dateTimeFormat.format(new Date(iso));
 }

@@ -52,4 +52,35 @@ describe.skipIf(!hasBrowser)('the manager opens This week', () => {
     });
     await page.close();
   });
+
+  it('gives a task to a technician from the board, and the board keeps the choice', async () => {
+    const page = await demo.browser.newPage();
+    await shotOnFailure(page, 'this-week-assign', async () => {
+      await signIn(page, demo.server.url, 'imogen@saltmarsh.test');
+      await page.getByRole('link', { name: 'This week' }).click();
+      const boxes = page.getByRole('combobox', { name: /^Technician for / });
+      await expect.poll(() => boxes.first().isEnabled()).toBe(true);
+      // The first row that can change hands: to a technician of its site, or back to nobody.
+      const choices = await boxes.evaluateAll((els) =>
+        els.map((el) => {
+          const box = el as HTMLSelectElement;
+          const other = [...box.options].find((o) => o.value !== box.value);
+          return other ? { label: box.getAttribute('aria-label')!, value: other.value, text: other.textContent ?? '' } : null;
+        }),
+      );
+      const index = choices.findIndex((c) => c !== null);
+      expect(index).toBeGreaterThanOrEqual(0);
+      const pick = choices[index]!;
+      const label = pick.label;
+      const box = boxes.nth(index);
+      await box.selectOption(pick.value);
+      const name = pick.value ? pick.text.replace(/ \(.*\)$/, '') : 'nobody';
+      await page.getByText(new RegExp(`assigned to ${name}\\.`)).first().waitFor();
+      // After the board has read the list again, the same row shows the same person.
+      const same = page.getByRole('combobox', { name: label }).first();
+      await expect.poll(() => same.inputValue()).toBe(pick.value);
+      await expect.poll(() => same.isEnabled()).toBe(true);
+    });
+    await page.close();
+  });
 });

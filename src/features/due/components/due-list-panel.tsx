@@ -6,6 +6,7 @@ import { ErrorPanel, Loading } from '../../../components/ui/states';
 import { DUE_STATUSES } from '../../../../shared/schemas/due';
 import { csvHref, dueQueries, type DueFilter } from '../api';
 import { listColumns } from './due-columns';
+import { AssignProvider } from './assign-select';
 import { DueFilters, WINDOWS } from './due-filters';
 
 function readFilter(p: URLSearchParams): DueFilter {
@@ -54,7 +55,9 @@ export function DueListPanel({ knownItems }: { knownItems: string[] }) {
         <ErrorPanel error={q.error} retry={() => q.refetch()} />
       ) : (
         <div className={q.isPlaceholderData ? 'opacity-60' : ''}>
-          <DataTable caption={`Due within ${filter.within} days`} columns={listColumns} data={q.data.items} pageSize={25} empty="Nothing matches these filters in this window." />
+          <AssignProvider>
+            <DataTable caption={`Due within ${filter.within} days`} columns={listColumns} data={q.data.items} pageSize={25} empty="Nothing matches these filters in this window." />
+          </AssignProvider>
         </div>
       )}
     </section>

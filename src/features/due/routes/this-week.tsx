@@ -9,6 +9,7 @@ import { dueQueries } from '../api';
 import { CalendarFeed } from '../components/calendar-feed';
 import { weekColumns } from '../components/due-columns';
 import { DueListPanel } from '../components/due-list-panel';
+import { AssignProvider } from '../components/assign-select';
 import { GroundedList } from '../components/grounded-list';
 import { SiteSummary } from '../components/site-summary';
 import { WeekSection } from '../components/week-section';
@@ -39,13 +40,13 @@ export function ThisWeekRoute({ extra, extraPending = false }: { extra?: ReactNo
         // Everything below waits too: content arriving above it would push it down the screen.
         <Loading what="this week’s work" />
       ) : (
-        <>
+        <AssignProvider>
           <SiteSummary sites={sites.data?.items ?? []} due={week.data!.items} bikes={grounded} />
           <WeekSection title="Overdue" icon="!" count={overdue.length} tone="stop">
-            <DataTable caption="Overdue work" columns={weekColumns} data={overdue} pageSize={100} empty="✓ Nothing is overdue." />
+            <DataTable caption="Overdue work" columns={weekColumns} data={overdue} pageSize={50} empty="✓ Nothing is overdue." />
           </WeekSection>
           <WeekSection title="Due within 7 days" icon="◔" count={soon.length} tone="soon">
-            <DataTable caption="Due within 7 days" columns={weekColumns} data={soon} pageSize={100} empty="Nothing else falls due this week." />
+            <DataTable caption="Due within 7 days" columns={weekColumns} data={soon} pageSize={50} empty="Nothing else falls due this week." />
           </WeekSection>
           <WeekSection title="Out of service" icon="■" count={grounded.length} tone="ink">
             <GroundedList bikes={grounded} />
@@ -54,7 +55,7 @@ export function ThisWeekRoute({ extra, extraPending = false }: { extra?: ReactNo
           <DueListPanel knownItems={knownItems} />
           <CalendarFeed />
           <SafetyNote />
-        </>
+        </AssignProvider>
       )}
     </div>
   );
