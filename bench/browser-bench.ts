@@ -93,6 +93,10 @@ export async function browserBench(base: string): Promise<ScreenFigures[]> {
     await page.getByLabel('Password').fill(DEMO_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.waitForURL(/\/this-week$/);
+    // The board signing in lands on has finished loading (it shows its rows once every part is in),
+    // so each screen below is opened on a quiet server rather than behind the board's requests.
+    await page.locator('tbody tr').first().waitFor({ timeout: 90_000 });
+    await page.waitForTimeout(500);
     const out: ScreenFigures[] = [];
     for (const s of SCREENS) out.push(await measure(page, base, s));
     return out;
