@@ -1,6 +1,7 @@
 import { fork, type ChildProcess } from 'node:child_process';
 import { join } from 'node:path';
-import { BENCH_DIR } from './args';
+import { buildServer } from '../server/build';
+import { DATA_ROOT } from './args';
 
 export interface Memory {
   rss: number;
@@ -17,12 +18,19 @@ export interface Worker {
   stop(): Promise<void>;
 }
 
-/** Starts bench/worker.ts in a child process with tsx as its loader, and waits for it to listen. */
-/** `nodeArgs`: extra Node options for the server, e.g. `--cpu-prof` to see where its time goes. */
+let bundle: Promise<string> | undefined;
+/** bench/worker.ts compiled the way `npm start` compiles the server, once per run. */
+const workerBundle = () => (bundle ??= buildServer('bench/worker.ts', join(DATA_ROOT, 'worker')));
+
+/**
+ * Starts bench/worker.ts, compiled, in a child process under plain Node as `npm start` runs the
+ * server, and waits for it to listen. `nodeArgs`: extra Node options for the server, e.g.
+ * `--cpu-prof` to see where its time goes.
+ */
 export async function startWorker(opts: { dataDir?: string; dist?: string; nodeArgs?: string[] }): Promise<Worker> {
   const args = [...(opts.dataDir ? ['--data', opts.dataDir] : []), ...(opts.dist ? ['--dist', opts.dist] : [])];
-  const child: ChildProcess = fork(join(BENCH_DIR, 'worker.ts'), args, {
-    execArgv: ['--import', import.meta.resolve('tsx'), '--expose-gc', ...(opts.nodeArgs ?? [])],
+  const child: ChildProcess = fork(await workerBundle(), args, {
+    execArgv: ['--expose-gc', ...(opts.nodeArgs ?? [])],
     env: { ...process.env, NODE_ENV: 'production' },
     stdio: ['ignore', 'inherit', 'inherit', 'ipc'],
   });

@@ -74,6 +74,7 @@ const handlers: Record<string, Handler> = {
   recordStart: () => recorder.start(),
   recordStop: () => recorder.stop(),
   memory,
+  pid: () => process.pid,
   /** After a full garbage collection (the worker runs with --expose-gc): what the server really holds. */
   memoryAfterGc: async () => {
     const gc = (globalThis as { gc?: () => void }).gc;

@@ -10,7 +10,7 @@ import { createApp } from './app';
 import { sessionSecret } from './secrets';
 import { seedDemo } from './demo/seed';
 import { needsSetup } from './services/accounts';
-import { startMailCatcher, type MailCatcher } from './mail/catcher';
+import type { MailCatcher } from './mail/catcher';
 import { createTransport } from './mail/transport';
 import { startScheduler } from '../jobs';
 import { updateLock } from './db/data-dir-lock';
@@ -42,7 +42,8 @@ async function main() {
   }
   // Without an SMTP server, mail goes to the built-in catcher and shows on the admin's mail page.
   let catcher: MailCatcher | undefined;
-  if (!config.SMTP_URL) catcher = await startMailCatcher(database.db, config.MAIL_CATCHER_PORT);
+  // Loaded only then: a server with a real mail server does not hold the SMTP receiver in memory.
+  if (!config.SMTP_URL) catcher = await (await import('./mail/catcher')).startMailCatcher(database.db, config.MAIL_CATCHER_PORT);
   const transport = createTransport(config.SMTP_URL, catcher?.port);
   const blobStore = createBlobStore(process.env, dataDir);
   const jobToken = randomBytes(24).toString('base64url');

@@ -1,4 +1,6 @@
-import { mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { PGlite } from '@electric-sql/pglite';
 import type { PgDatabase, PgQueryResultHKT } from 'drizzle-orm/pg-core';
 import { drizzle as drizzlePglite } from 'drizzle-orm/pglite';
@@ -51,7 +53,15 @@ async function pgliteChanges(client: PGlite): Promise<ChangeFeed> {
   };
 }
 
-export const MIGRATIONS_FOLDER = new URL('../../drizzle', import.meta.url).pathname;
+/** drizzle/ of the project this code runs from: as TypeScript in server/db/, or compiled into build/server/. */
+export const MIGRATIONS_FOLDER = projectFolder('drizzle');
+
+function projectFolder(name: string) {
+  for (let dir = dirname(fileURLToPath(import.meta.url)); ; dir = dirname(dir)) {
+    if (existsSync(join(dir, 'package.json')) && existsSync(join(dir, name))) return join(dir, name);
+    if (dirname(dir) === dir) throw new Error(`No ${name}/ folder above ${fileURLToPath(import.meta.url)}: run Lashline from its project folder.`);
+  }
+}
 
 export interface OpenOptions {
   databaseUrl?: string;

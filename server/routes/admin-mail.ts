@@ -6,7 +6,6 @@ import { validate } from '../middleware/validate';
 import { caughtMail, outbox } from '../db/schema';
 import { IdParamsSchema } from '../../shared/schemas/common';
 import { notFound } from '../http-error';
-import { simpleParser } from 'mailparser';
 
 export function adminMailRoutes(ctx: AppContext) {
   const r = Router();
@@ -43,6 +42,8 @@ export function adminMailRoutes(ctx: AppContext) {
     const { id } = req.valid.params as { id: string };
     const [m] = await db.select().from(caughtMail).where(eq(caughtMail.id, id));
     if (!m) throw notFound('That message');
+    // Loaded when a message is first opened, not with every server.
+    const { simpleParser } = await import('mailparser');
     const parsed = await simpleParser(m.raw);
     res.json({
       message: {

@@ -1,4 +1,3 @@
-import sharp from 'sharp';
 import { fileTypeFromBuffer } from 'file-type';
 import { DOCUMENT_TYPES, PHOTO_TYPES, WRONG_TYPE_MESSAGE, type AttachmentMime } from '../../shared/schemas/attachments';
 import { badRequest } from '../http-error';
@@ -30,6 +29,8 @@ export async function inspectFile(bytes: Buffer): Promise<InspectedFile> {
   if (!type) throw wrongType();
   if (isDocument(type.mime)) return { mime: type.mime, kind: 'document', width: null, height: null, thumb: null };
   if (!isPhoto(type.mime)) throw wrongType();
+  // Loaded with the first photo: the image libraries take tens of MB a server without photos need not hold.
+  const { default: sharp } = await import('sharp');
   try {
     const image = sharp(bytes, { limitInputPixels: MAX_INPUT_PIXELS, failOn: 'error' });
     const meta = await image.metadata();

@@ -2,13 +2,12 @@ import { join, resolve } from 'node:path';
 import { z } from 'zod';
 import type { BlobStore } from './types';
 import { createDiskBlobStore } from './disk';
-import { createS3BlobStore } from './s3';
+import type { S3StoreOptions } from './s3';
 import { DEFAULT_UPLOAD_MAX_BYTES } from '../../shared/schemas/attachments';
 
 export type { BlobStore } from './types';
 export { createMemoryBlobStore } from './memory';
 export { createDiskBlobStore } from './disk';
-export { createS3BlobStore } from './s3';
 
 const blank = (s: unknown) => (typeof s === 'string' && s.trim() === '' ? undefined : s);
 const opt = z.preprocess(blank, z.string().optional());
@@ -47,7 +46,7 @@ export function createBlobStore(env: NodeJS.ProcessEnv, dataDir: string): BlobSt
   if (e.S3_BUCKET) {
     // Path style is what most self-hosted S3-compatible services expect; AWS itself prefers virtual hosts.
     const pathStyle = e.S3_FORCE_PATH_STYLE ? ['1', 'true', 'yes'].includes(e.S3_FORCE_PATH_STYLE) : Boolean(e.S3_ENDPOINT);
-    const store = createS3BlobStore({
+    const store = lazyS3BlobStore({
       bucket: e.S3_BUCKET,
       region: e.S3_REGION,
       endpoint: e.S3_ENDPOINT,
@@ -58,6 +57,20 @@ export function createBlobStore(env: NodeJS.ProcessEnv, dataDir: string): BlobSt
   }
   const root = join(resolve(dataDir), 'uploads');
   return Object.assign(createDiskBlobStore(root), { describe: `files in ${root}` });
+}
+
+/**
+ * The S3 client loads with the first file stored or read: a server keeping files on disk never
+ * holds the SDK in memory.
+ */
+function lazyS3BlobStore(o: S3StoreOptions): BlobStore {
+  let store: Promise<BlobStore> | undefined;
+  const real = () => (store ??= import('./s3').then((m) => m.createS3BlobStore(o)));
+  return {
+    put: async (key, bytes, contentType) => (await real()).put(key, bytes, contentType),
+    get: async (key) => (await real()).get(key),
+    delete: async (key) => (await real()).delete(key),
+  };
 }
 
 /** The largest upload accepted, from UPLOAD_MAX_MB (8 MB when unset). */

@@ -1,5 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { spawn } from 'node:child_process';
+import { SERVER_BUNDLE } from '../../server/build';
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import request from 'supertest';
@@ -61,7 +62,7 @@ describe('durability of the embedded database', () => {
     expect(missing).toEqual([]);
 
     // A second process on the same data directory is refused with a clear message.
-    const third = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { env: { ...process.env, PORT: '0', DATA_DIR: first.dataDir, SCHEDULER: 'off' }, stdio: ['ignore', 'pipe', 'pipe'] });
+    const third = spawn(process.execPath, [SERVER_BUNDLE], { env: { ...process.env, PORT: '0', DATA_DIR: first.dataDir, SCHEDULER: 'off' }, stdio: ['ignore', 'pipe', 'pipe'] });
     let err = '';
     third.stderr!.on('data', (d) => (err += d));
     const code = await new Promise<number | null>((r) => third.on('exit', r));
