@@ -1,6 +1,6 @@
 import { fork, type ChildProcess } from 'node:child_process';
 import { join } from 'node:path';
-import { buildServer } from '../server/build';
+import { buildServer, SERVER_NODE_FLAGS } from '../server/build';
 import { DATA_ROOT } from './args';
 
 export interface Memory {
@@ -30,7 +30,7 @@ const workerBundle = () => (bundle ??= buildServer('bench/worker.ts', join(DATA_
 export async function startWorker(opts: { dataDir?: string; dist?: string; nodeArgs?: string[] }): Promise<Worker> {
   const args = [...(opts.dataDir ? ['--data', opts.dataDir] : []), ...(opts.dist ? ['--dist', opts.dist] : [])];
   const child: ChildProcess = fork(await workerBundle(), args, {
-    execArgv: ['--expose-gc', ...(opts.nodeArgs ?? [])],
+    execArgv: [...SERVER_NODE_FLAGS, '--expose-gc', ...(opts.nodeArgs ?? [])],
     env: { ...process.env, NODE_ENV: 'production' },
     stdio: ['ignore', 'inherit', 'inherit', 'ipc'],
   });

@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { spawn } from 'node:child_process';
-import { SERVER_BUNDLE } from '../../server/build';
+import { SERVER_BUNDLE, SERVER_NODE_FLAGS } from '../../server/build';
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import request from 'supertest';

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll } from 'vitest';
 import { spawn, type ChildProcess } from 'node:child_process';
-import { SERVER_BUNDLE } from '../../server/build';
+import { SERVER_BUNDLE, SERVER_NODE_FLAGS } from '../../server/build';
 import { existsSync } from 'node:fs';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
@@ -27,7 +27,7 @@ export async function startDemoServer(env: Record<string, string> = {}, existing
   const dataDir = existingDataDir ?? (await mkdtemp(join(tmpdir(), 'lashline-e2e-')));
   // The compiled server (the global setup builds it) under Node itself, as `npm start` runs it:
   // signals reach the server, not a wrapper.
-  const proc = spawn(process.execPath, [SERVER_BUNDLE, '--demo'], {
+  const proc = spawn(process.execPath, [...SERVER_NODE_FLAGS, SERVER_BUNDLE, '--demo'], {
     env: { ...process.env, NODE_ENV: 'production', PORT: '0', DATA_DIR: dataDir, DEMO_PASSWORD, ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
     // Its own process group, so a signal reaches the server and not only the npx wrapper.
