@@ -195,12 +195,17 @@ export const serviceRecords = pgTable(
   (t) => [index('service_records_bike_item').on(t.bikeId, t.serviceItemId, t.date)],
 );
 
-/** The latest due computation per bike and service item, written by the scan and by check-ins. */
+/**
+ * The latest due computation per bike and service item, written by the scan and by check-ins. Derived
+ * data, rewritten whole by every scan: no foreign keys (a first scan writes a row per bike and item,
+ * and checking two keys per row doubled its cost); triggers on bikes and service_items remove a
+ * deleted one's rows as a cascade would (migration 0003), and every read joins both tables.
+ */
 export const dueStates = pgTable(
   'due_states',
   {
-    bikeId: uuid('bike_id').notNull().references(() => bikes.id, { onDelete: 'cascade' }),
-    serviceItemId: uuid('service_item_id').notNull().references(() => serviceItems.id, { onDelete: 'cascade' }),
+    bikeId: uuid('bike_id').notNull(),
+    serviceItemId: uuid('service_item_id').notNull(),
     status: text('status', { enum: ['ok', 'soon', 'overdue'] }).notNull(),
     dueAtKm: doublePrecision('due_at_km'),
     dueByDate: date('due_by_date', { mode: 'string' }),
