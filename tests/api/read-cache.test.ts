@@ -138,6 +138,15 @@ describe('cached session person', () => {
   });
 });
 
+/** A write that never commits. */
+const renameASiteAndRollBack = () =>
+  expect(
+    t.database.db.transaction(async (tx) => {
+      await tx.update(sites).set({ name: 'Never' }).where(eq(sites.id, w.siteB.id));
+      throw new Error('roll back');
+    }),
+  ).rejects.toThrow('roll back');
+
 describe('data version', () => {
   it('moves on in the writing transaction, and not when a transaction rolls back', async () => {
     const cache = new ReadCache(t.database.db);
@@ -153,12 +162,7 @@ describe('data version', () => {
     expect(await cache.version()).toBeGreaterThan(v1);
     expect(await cache.version('people')).toBe(people1);
     await t.database.db.update(dueStates).set({ status: 'overdue' }).where(eq(dueStates.bikeId, bike.id));
-    await expect(
-      t.database.db.transaction(async (tx) => {
-        await tx.update(sites).set({ name: 'Never' }).where(eq(sites.id, w.siteB.id));
-        throw new Error('roll back');
-      }),
-    ).rejects.toThrow('roll back');
+    await renameASiteAndRollBack();
     expect(await cache.version()).toBe(v1 + 2);
   });
 
@@ -177,12 +181,7 @@ describe('data version', () => {
       await t.database.pglite!.query(`update sites set name = name`);
       expect(await cache.version()).toBe(v0 + 1);
       expect(reads).toHaveBeenCalledTimes(2);
-      await expect(
-        t.database.db.transaction(async (tx) => {
-          await tx.update(sites).set({ name: 'Never' }).where(eq(sites.id, w.siteB.id));
-          throw new Error('roll back');
-        }),
-      ).rejects.toThrow('roll back');
+      await renameASiteAndRollBack();
       expect(await cache.version()).toBe(v0 + 1);
       expect(reads).toHaveBeenCalledTimes(2);
       // The due list of a signed-in person: a change made outside the app is served at once.
