@@ -66,12 +66,15 @@ export class ReadCache {
   /** Every scope's version in one read. No row (a database restored from outside the app): nothing can be trusted, so nothing is cached. */
   versions(): Promise<Record<DataScope, number>> {
     if (!this.feed) return this.readVersions();
-    const read = (this.known ??= this.readVersions());
-    // A failed read is not kept.
-    read.catch(() => {
-      if (this.known === read) this.known = undefined;
-    });
-    return read;
+    if (!this.known) {
+      const read = this.readVersions();
+      // A failed read is not kept.
+      read.catch(() => {
+        if (this.known === read) this.known = undefined;
+      });
+      this.known = read;
+    }
+    return this.known;
   }
 
   private async readVersions(): Promise<Record<DataScope, number>> {

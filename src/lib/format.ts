@@ -6,11 +6,11 @@ export const formatOdometer = (v: number | null | undefined, unit: string) => (v
 export const formatKm = (v: number | null | undefined) => (v == null ? '—' : `${nf.format(v)} km`);
 export const formatRate = (v: number | null | undefined, unit = 'km') => (v == null ? '—' : `${nf1.format(v)} ${unit}/day`);
 
-/** A calendar date as people read it; the value stays an ISO date. */
 // One formatter each: toLocaleString builds a new one on every call, which a list of hundreds of rows feels.
 const dateFormat = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
 const dateTimeFormat = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
 
+/** A calendar date as people read it; the value stays an ISO date. */
 export function formatDate(iso: string | null | undefined) {
   if (!iso) return '—';
   const [y, m, d] = iso.split('-').map(Number);

@@ -6,7 +6,6 @@ import { ErrorPanel, Loading } from '../../../components/ui/states';
 import { DUE_STATUSES } from '../../../../shared/schemas/due';
 import { csvHref, dueQueries, type DueFilter } from '../api';
 import { listColumns } from './due-columns';
-import { AssignProvider } from './assign-select';
 import { DueFilters, WINDOWS } from './due-filters';
 
 function readFilter(p: URLSearchParams): DueFilter {
@@ -21,7 +20,10 @@ function readFilter(p: URLSearchParams): DueFilter {
   };
 }
 
-/** The due list with its filters in the address, so a filtered list can be bookmarked or sent. */
+/**
+ * The due list with its filters in the address, so a filtered list can be bookmarked or sent. Its
+ * technician boxes share the AssignProvider of the board it sits on.
+ */
 export function DueListPanel({ knownItems }: { knownItems: string[] }) {
   const [params, setParams] = useSearchParams();
   const filter = readFilter(params);
@@ -55,9 +57,7 @@ export function DueListPanel({ knownItems }: { knownItems: string[] }) {
         <ErrorPanel error={q.error} retry={() => q.refetch()} />
       ) : (
         <div className={q.isPlaceholderData ? 'opacity-60' : ''}>
-          <AssignProvider>
-            <DataTable caption={`Due within ${filter.within} days`} columns={listColumns} data={q.data.items} pageSize={25} empty="Nothing matches these filters in this window." />
-          </AssignProvider>
+          <DataTable caption={`Due within ${filter.within} days`} columns={listColumns} data={q.data.items} pageSize={25} empty="Nothing matches these filters in this window." />
         </div>
       )}
     </section>
