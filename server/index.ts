@@ -13,6 +13,7 @@ import { needsSetup } from './services/accounts';
 import type { MailCatcher } from './mail/catcher';
 import { createTransport } from './mail/transport';
 import { startScheduler } from '../jobs';
+import { slotClaimer } from '../jobs/claim';
 import { updateLock } from './db/data-dir-lock';
 import { createBlobStore, uploadMaxBytesFromEnv } from './storage';
 
@@ -76,6 +77,7 @@ async function main() {
             { job: 'weekly-digest', cron: config.DIGEST_CRON, timeZone: config.SCHEDULE_TZ, catchUp: true },
             { job: 'deliver-mail', cron: config.MAIL_RETRY_CRON, timeZone: config.SCHEDULE_TZ, catchUp: false },
           ],
+          slotClaimer(database),
         )
       : null;
 

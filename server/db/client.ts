@@ -18,6 +18,8 @@ export interface Database {
   kind: DbKind;
   /** The PGlite instance when embedded (for backups and data-directory dumps). */
   pglite?: PGlite;
+  /** The connection pool on PostgreSQL, for work that must hold one connection of its own (claimed job runs). */
+  pool?: pg.Pool;
   /**
    * Commit notifications, on embedded PGlite only: there this process is the database's one user and
    * a notification reaches its listeners before the committing call returns, so memory kept in step
@@ -80,7 +82,7 @@ export async function openDatabase(opts: OpenOptions): Promise<Database> {
     const pool = new pg.Pool({ connectionString: opts.databaseUrl, max: 10 });
     const db = drizzlePg({ client: pool, schema }) as unknown as Db;
     if (opts.migrate !== false) await migratePg(db as never, { migrationsFolder: MIGRATIONS_FOLDER });
-    return { db, kind: 'postgres', close: () => pool.end() };
+    return { db, kind: 'postgres', pool, close: () => pool.end() };
   }
   if (opts.dataDir) mkdirSync(opts.dataDir, { recursive: true });
   // PostgreSQL's own page cache lives inside PGlite's WebAssembly memory, which never shrinks; the

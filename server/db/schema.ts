@@ -273,6 +273,8 @@ export const jobRuns = pgTable(
     job: text('job').notNull(),
     slot: text('slot').notNull(),
     startedAt: timestamp('started_at', { withTimezone: true }).notNull().defaultNow(),
+    /** The process (one id per start) that runs or ran it: a run whose process died is claimed again. */
+    owner: text('owner'),
     finishedAt: timestamp('finished_at', { withTimezone: true }),
     result: jsonb('result'),
   },

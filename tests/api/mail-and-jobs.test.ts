@@ -4,10 +4,11 @@ import { simpleParser } from 'mailparser';
 import { eq } from 'drizzle-orm';
 import { agent, manualClock, testApp, type Agent, type TestContext } from '../support/test-app';
 import { PASSWORD, makeServiceItem, world } from '../support/factories';
-import { outbox } from '../../server/db/schema';
+import { jobRuns, outbox } from '../../server/db/schema';
 import { isoWeekLabel } from '../../jobs/weekly-digest';
 import { MAX_ATTEMPTS, backoffMinutes } from '../../server/mail/outbox';
-import { STALE_AFTER_MS, claimSlot, finishSlot } from '../../jobs/claim';
+import { slotClaimer } from '../../jobs/claim';
+import { openDatabase } from '../../server/db/client';
 
 const clock = manualClock('2026-06-15T06:00:00Z');
 let t: TestContext;
@@ -38,19 +39,72 @@ describe('ISO week label', () => {
 });
 
 describe('claimed time slots', () => {
-  it('runs a slot once, and again only when its run died unfinished (a scan killed halfway)', async () => {
-    const db = t.database.db;
-    const now = new Date('2026-06-15T05:30:00Z');
-    expect(await claimSlot(db, 'due-scan', 'test-slot', now)).toBe(true);
-    expect(await claimSlot(db, 'due-scan', 'test-slot', now)).toBe(false);
-    // Still within the stale limit: the first run may still be going.
-    expect(await claimSlot(db, 'due-scan', 'test-slot', new Date(now.getTime() + STALE_AFTER_MS / 2))).toBe(false);
-    const later = new Date(now.getTime() + STALE_AFTER_MS + 1000);
-    expect(await claimSlot(db, 'due-scan', 'test-slot', later)).toBe(true);
-    expect(await claimSlot(db, 'due-scan', 'test-slot', later)).toBe(false);
-    await finishSlot(db, 'due-scan', 'test-slot', { summary: 'done' }, later);
-    expect(await claimSlot(db, 'due-scan', 'test-slot', new Date(later.getTime() + 2 * STALE_AFTER_MS))).toBe(false);
+  const now = new Date('2026-06-15T05:30:00Z');
+  const runOf = async (slot: string) => (await t.database.db.select().from(jobRuns).where(eq(jobRuns.slot, slot)))[0];
+
+  it('runs a slot once: a repeat in the same process, or another live claimer, skips it', async () => {
+    const a = slotClaimer(t.database, 'process-a');
+    const run = await a.claim('due-scan', 'slot-once', now);
+    expect(run).not.toBeNull();
+    expect(await a.claim('due-scan', 'slot-once', now)).toBeNull();
+    await run!.finish({ summary: 'done' }, now);
+    expect(await a.claim('due-scan', 'slot-once', now)).toBeNull();
+    expect(await slotClaimer(t.database, 'process-b').claim('due-scan', 'slot-once', now)).toBeNull();
+    expect((await runOf('slot-once')).finishedAt).not.toBeNull();
   });
+
+  it('lets a failed run go, so the next claim runs it again', async () => {
+    const a = slotClaimer(t.database, 'process-a');
+    await (await a.claim('due-scan', 'slot-failed', now))!.abandon('disk full');
+    expect((await runOf('slot-failed')).result).toEqual({ error: 'disk full' });
+    const again = await a.claim('due-scan', 'slot-failed', now);
+    expect(again).not.toBeNull();
+    await again!.finish({ summary: 'done' }, now);
+  });
+
+  it.skipIf(process.env.LASHLINE_TEST_DB === 'postgres')(
+    'on embedded PGlite, a run left unfinished by an earlier start of the server is claimed at once',
+    async () => {
+      // Only one process can hold the data directory, so another owner's unfinished run died with it.
+      const before = slotClaimer(t.database, 'first-start');
+      expect(await before.claim('due-scan', 'slot-killed', now)).not.toBeNull();
+      const after = slotClaimer(t.database, 'second-start');
+      const run = await after.claim('due-scan', 'slot-killed', now);
+      expect(run).not.toBeNull();
+      expect((await runOf('slot-killed')).owner).toBe('second-start');
+      expect(await after.claim('due-scan', 'slot-killed', now)).toBeNull();
+      await run!.finish({ summary: 'done' }, now);
+    },
+  );
+
+  it.skipIf(process.env.LASHLINE_TEST_DB !== 'postgres')(
+    'on PostgreSQL, a live run holds its slot against other instances; once its connection dies the slot is claimed at once',
+    async () => {
+      const other = await openDatabase({ databaseUrl: process.env.TEST_DATABASE_URL!, migrate: false });
+      try {
+        const first = slotClaimer(t.database, 'instance-1');
+        const second = slotClaimer(other, 'instance-2');
+        const dying = await first.claim('due-scan', 'slot-killed', now);
+        expect(dying).not.toBeNull();
+        expect(await second.claim('due-scan', 'slot-killed', now)).toBeNull();
+        // The first instance dies: its connection, and the row lock it held, go with it.
+        const killed = await other.pool!.query(
+          `select pg_terminate_backend(pid) from pg_stat_activity where datname = current_database() and state like 'idle in transaction%' and query like '%skip locked%'`,
+        );
+        expect(killed.rowCount).toBe(1);
+        const run = await second.claim('due-scan', 'slot-killed', now);
+        expect(run).not.toBeNull();
+        expect(await first.claim('due-scan', 'slot-killed', now)).toBeNull();
+        // The first instance, had it lived on, would learn it lost the slot instead of recording a result.
+        await expect(dying!.finish({ summary: 'late' }, now)).rejects.toThrow(/lost/);
+        await run!.finish({ summary: 'done' }, now);
+        expect((await runOf('slot-killed')).owner).toBe('instance-2');
+        expect((await runOf('slot-killed')).result).toEqual({ summary: 'done' });
+      } finally {
+        await other.close();
+      }
+    },
+  );
 });
 
 describe('jobs run by an administrator', () => {
