@@ -1,5 +1,5 @@
 import type { DueItem } from '../../shared/schemas/due';
-import { escapeHtml } from '../services/check-in';
+import { escapeHtml } from './site-managers';
 
 export interface DigestData {
   managerName: string;

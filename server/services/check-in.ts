@@ -1,7 +1,7 @@
-import { and, eq, inArray, sql, type SQL } from 'drizzle-orm';
+import { eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { continuousKm, inServiceOdometer } from './odometer-anchor';
 import type { Db, Tx } from '../db/client';
-import { auditLog, bikes, defects, odometerReadings, sites, userSites, users } from '../db/schema';
+import { auditLog, bikes, defects, odometerReadings, sites } from '../db/schema';
 import { jsonTuples } from '../db/json-rows';
 import type { OdometerSegment } from '../../shared/domain/odometer';
 import type { OdometerUnit } from '../../shared/domain/units';
@@ -12,7 +12,7 @@ import type { SessionUser } from '../../shared/schemas/auth';
 import { canSeeSite } from '../../shared/domain/policies';
 import { HttpError, badRequest, conflict, forbidden, notFound } from '../http-error';
 import { audit } from '../audit';
-import { enqueue } from '../mail/outbox';
+import { tellSiteManagers } from '../mail/site-managers';
 import { applyDue, computeAll, recomputeBike } from './due';
 import { loadDueInputs } from './due-data';
 
@@ -110,7 +110,16 @@ export async function recordCheckIn(db: Db, user: SessionUser, bikeId: string, i
         const reason = `Safety defect reported at check-in (${input.defect.category}): ${input.defect.text}`;
         await tx.update(bikes).set({ status: 'out_of_service', statusReason: reason, updatedAt: now }).where(eq(bikes.id, bikeId));
         await audit(tx, { userId: user.id, action: 'grounded', entity: 'bike', entityId: bikeId, changes: { status: [bike.status, 'out_of_service'], reason } });
-        await tellManagers(tx, bike.siteId, `${bike.fleetNumber} grounded: ${input.defect.category} defect`, `${user.name} reported a safety defect on ${bike.fleetNumber} at check-in on ${date}:\n\n${input.defect.text}\n\nThe bike is out of service until a technician or manager returns it to service.`, `defect:${d.id}`, now);
+        await tellSiteManagers(
+          tx,
+          {
+            siteId: bike.siteId,
+            subject: `${bike.fleetNumber} grounded: ${input.defect.category} defect`,
+            text: `${user.name} reported a safety defect on ${bike.fleetNumber} at check-in on ${date}:\n\n${input.defect.text}\n\nThe bike is out of service until a technician or manager returns it to service.`,
+            key: `defect:${d.id}`,
+          },
+          now,
+        );
         grounded = true;
       }
     }
@@ -203,16 +212,3 @@ export async function recordCheckIns(db: Db, jobs: CheckInJob[], now: Date): Pro
   });
 }
 
-async function tellManagers(tx: Tx, siteId: string, subject: string, text: string, key: string, now: Date) {
-  const managers = await tx
-    .select({ id: users.id, email: users.email })
-    .from(users)
-    .innerJoin(userSites, eq(userSites.userId, users.id))
-    .where(and(eq(userSites.siteId, siteId), inArray(users.role, ['manager']), eq(users.disabled, false)));
-  for (const m of managers) {
-    const html = `<p>${escapeHtml(text).replace(/\n/g, '<br>')}</p>`;
-    await enqueue(tx, { dedupeKey: `${key}:${m.id}`, to: m.email, subject: `Lashline: ${subject}`, text, html }, now);
-  }
-}
-
-export const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);

@@ -1,11 +1,11 @@
-import { and, asc, eq, inArray } from 'drizzle-orm';
+import { asc, eq, inArray } from 'drizzle-orm';
 import type { DbOrTx, Tx } from '../db/client';
-import { bikes, readingTemplates, serviceReadings, userSites, users } from '../db/schema';
+import { bikes, readingTemplates, serviceReadings } from '../db/schema';
 import type { ReadingTemplate, ReadingValue } from '../../shared/schemas/tasks';
 import { describeLimit, outsideLimits } from '../../shared/domain/limits';
 import { badRequest } from '../http-error';
 import { audit } from '../audit';
-import { enqueue } from '../mail/outbox';
+import { tellSiteManagers } from '../mail/site-managers';
 
 export async function templatesFor(db: DbOrTx, itemIds: string[]): Promise<Map<string, ReadingTemplate[]>> {
   const by = new Map<string, ReadingTemplate[]>();
@@ -62,14 +62,15 @@ export async function recordReadings(
   const reason = `Outside a safety limit on ${c.date}: ${unsafe.join('; ')}. Do not ride until repaired and signed off.`;
   const [bike] = await tx.update(bikes).set({ status: 'out_of_service', statusReason: reason, updatedAt: now }).where(eq(bikes.id, c.bikeId)).returning({ fleetNumber: bikes.fleetNumber });
   await audit(tx, { userId: user.id, action: 'grounded', entity: 'bike', entityId: c.bikeId, changes: { status: [null, 'out_of_service'], reason, taskId: c.taskId } });
-  const managers = await tx
-    .select({ id: users.id, email: users.email })
-    .from(users)
-    .innerJoin(userSites, eq(userSites.userId, users.id))
-    .where(and(eq(userSites.siteId, c.siteId), eq(users.role, 'manager'), eq(users.disabled, false)));
-  for (const m of managers) {
-    const text = `${user.name} recorded a reading outside a safety limit on ${bike.fleetNumber}:\n\n${unsafe.join('\n')}\n\nThe bike is out of service until repaired and returned to service.`;
-    await enqueue(tx, { dedupeKey: `limit:${c.recordId}:${m.id}`, to: m.email, subject: `Lashline: ${bike.fleetNumber} grounded: reading outside a safety limit`, text, html: `<p>${text.replace(/\n/g, '<br>')}</p>` }, now);
-  }
+  await tellSiteManagers(
+    tx,
+    {
+      siteId: c.siteId,
+      subject: `${bike.fleetNumber} grounded: reading outside a safety limit`,
+      text: `${user.name} recorded a reading outside a safety limit on ${bike.fleetNumber}:\n\n${unsafe.join('\n')}\n\nThe bike is out of service until repaired and returned to service.`,
+      key: `limit:${c.recordId}`,
+    },
+    now,
+  );
   return { grounded: true };
 }

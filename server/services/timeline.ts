@@ -1,5 +1,5 @@
 import { and, desc, eq, inArray } from 'drizzle-orm';
-import type { DbOrTx } from '../db/client';
+import type { Db } from '../db/client';
 import { auditLog, defects, odometerReadings, serviceItems, serviceRecords, serviceTasks, users, valveChecks } from '../db/schema';
 
 export interface TimelineEvent {
@@ -15,8 +15,11 @@ const iso = (d: Date) => d.toISOString();
 const when = (date: string, created: Date) => (iso(created).startsWith(date) ? iso(created) : `${date}T12:00:00.000Z`);
 const fmtKm = (km: number) => `${Math.round(km).toLocaleString('en-GB')} km`;
 
-/** A bike's story in order, newest first: check-ins, defects, work raised and done, readings, state changes. */
-export async function bikeTimeline(db: DbOrTx, bikeId: string, limit = 300): Promise<TimelineEvent[]> {
+/**
+ * A bike's story in order, newest first: check-ins, defects, work raised and done, readings, state changes.
+ * Takes the database, never a transaction: its reads go out together, each on a connection of its own on PostgreSQL.
+ */
+export async function bikeTimeline(db: Db, bikeId: string, limit = 300): Promise<TimelineEvent[]> {
   const names = new Map<string, string>();
   const person = (id: string | null) => (id ? (names.get(id) ?? null) : null);
   const [readings, defs, tasks, records, checks, audits] = await Promise.all([

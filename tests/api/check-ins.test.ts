@@ -92,7 +92,7 @@ describe('POST /api/bikes/:id/check-ins', () => {
     const other = await makeBike(t.database.db, w.model.id, w.siteA.id, { inServiceDate: '2026-06-01' });
     const res = await as.desk
       .post(`/api/bikes/${other.id}/check-ins`)
-      .send({ odometer: 300, defect: { category: 'brakes', text: 'Front brake lever reaches the bar', safetyCritical: true } });
+      .send({ odometer: 300, defect: { category: 'brakes', text: 'Front brake lever reaches the bar <b>fast</b>', safetyCritical: true } });
     expect(res.status).toBe(201);
     expect(res.body.grounded).toBe(true);
     expect(res.body.ride.mayRide).toBe(false);
@@ -100,7 +100,11 @@ describe('POST /api/bikes/:id/check-ins', () => {
     expect(row.status).toBe('out_of_service');
     expect(row.statusReason).toContain('Front brake lever');
     const mails = await t.database.db.select().from(outbox);
-    expect(mails.some((m) => m.to === w.people.manager.email && m.subject.includes(other.fleetNumber))).toBe(true);
+    const mail = mails.find((m) => m.to === w.people.manager.email && m.subject.includes(other.fleetNumber));
+    expect(mail).toBeDefined();
+    // What a rider typed reaches the HTML part as text, never as markup.
+    expect(mail!.html).toContain('&#60;b&#62;fast&#60;/b&#62;');
+    expect(mail!.html).not.toContain('<b>fast');
   });
 
   it('takes 50 concurrent check-ins on one bike: none refused, the highest kept, no row lost', async () => {
