@@ -1,21 +1,12 @@
 import { z } from 'zod';
 import { IdSchema, IsoDateSchema, MAX_TEXT, OdometerUnitSchema } from './common';
+import { WorkRowSchema } from './work-row';
 
 export const DUE_STATUSES = ['ok', 'soon', 'overdue'] as const;
 export const DueStatusSchema = z.enum(DUE_STATUSES);
 
-export const DueItemSchema = z.object({
-  bikeId: IdSchema,
-  fleetNumber: z.string(),
-  siteId: IdSchema,
-  siteName: z.string(),
-  modelName: z.string(),
-  itemId: IdSchema,
-  item: z.string(),
-  category: z.string(),
-  safetyCritical: z.boolean(),
+export const DueItemSchema = WorkRowSchema.extend({
   status: DueStatusSchema,
-  dueDate: z.string().nullable(),
   dueAtKm: z.number().nullable(),
   dueByDate: z.string().nullable(),
   trigger: z.enum(['km', 'calendar']).nullable(),
@@ -26,9 +17,7 @@ export const DueItemSchema = z.object({
   /** Distance left in the bike's own odometer unit. */
   remainingInUnit: z.number().nullable(),
   lastDoneDate: z.string().nullable(),
-  bikeStatus: z.string(),
   taskId: IdSchema.nullable(),
-  assignee: z.object({ id: IdSchema, name: z.string() }).nullable(),
 });
 export type DueItem = z.infer<typeof DueItemSchema>;
 export const DueListSchema = z.object({ items: z.array(DueItemSchema), today: z.string() });

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { IdSchema, IsoDateSchema, MAX_TEXT } from './common';
+import { WorkRowSchema } from './work-row';
 
 export const TASK_STATUSES = ['open', 'in_progress', 'done', 'cancelled'] as const;
 export const TASK_STATUS_LABELS: Record<(typeof TASK_STATUSES)[number], string> = {
@@ -9,23 +10,11 @@ export const TASK_STATUS_LABELS: Record<(typeof TASK_STATUSES)[number], string> 
   cancelled: 'Withdrawn',
 };
 
-export const TaskSchema = z.object({
+export const TaskSchema = WorkRowSchema.extend({
   id: IdSchema,
-  bikeId: IdSchema,
-  fleetNumber: z.string(),
-  siteId: IdSchema,
-  siteName: z.string(),
-  modelName: z.string(),
-  itemId: IdSchema,
-  item: z.string(),
-  category: z.string(),
-  safetyCritical: z.boolean(),
   status: z.enum(TASK_STATUSES),
   origin: z.string(),
-  dueDate: z.string().nullable(),
   estimatedMinutes: z.number(),
-  assignee: z.object({ id: IdSchema, name: z.string() }).nullable(),
-  bikeStatus: z.string(),
   raisedAt: z.string(),
   startedAt: z.string().nullable(),
   closedAt: z.string().nullable(),
