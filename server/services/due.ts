@@ -131,15 +131,10 @@ export interface ApplyReport {
 export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): Promise<ApplyReport> {
   await saveStates(db, computed, now);
   const wanted = computed.filter((c) => c.result.status !== 'ok');
-  const loads = await technicianLoads(db, [...new Set(wanted.map((c) => c.siteId))]);
-  const existing = await existingTasks(db, [...new Set(wanted.map((c) => c.bikeId))]);
-  const tasksRaised = await raiseTasks(
+  const tasksRaised = await raiseTask(
     db,
-    wanted.flatMap((c) => {
-      const key = cycleKey(c.result);
-      if (existing.has(c.bikeId, c.item.id, key)) return [];
-      return [{ bikeId: c.bikeId, serviceItemId: c.item.id, cycleKey: key, dueDate: c.result.dueDate, estimatedMinutes: c.item.estimatedMinutes, assigneeId: pickTechnician(loads.get(c.siteId), c.item.estimatedMinutes), raisedAt: now }];
-    }),
+    wanted.map((c) => ({ due: c, cycleKey: cycleKey(c.result), dueDate: c.result.dueDate })),
+    now,
   );
   const unsafe = new Map<string, string[]>();
   for (const c of wanted) {
@@ -164,11 +159,37 @@ export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): 
   return { computed: computed.length, tasksRaised, bikesGrounded };
 }
 
+/** Work the scan would raise for one computed item, in one due cycle. */
+interface WorkToRaise {
+  due: ComputedDue;
+  cycleKey: string;
+  dueDate: string | null;
+  origin?: 'trend';
+  note?: string;
+}
+
 /**
- * Inserts new tasks a few hundred rows per statement; the unique (bike, item, cycle) key turns a
- * task another run raised meanwhile into no row. Returns how many were raised.
+ * Raises the work not already raised for its cycle (nor open already), each task given to the least
+ * loaded technician of the bike's site, a few hundred rows per statement. The unique (bike, item,
+ * cycle) key turns a task another run raised meanwhile into no row. Returns how many were raised.
  */
-async function raiseTasks(db: Writer, rows: (typeof serviceTasks.$inferInsert)[]) {
+async function raiseTask(db: Writer, work: WorkToRaise[], now: Date) {
+  if (!work.length) return 0;
+  const existing = await existingTasks(db, [...new Set(work.map((w) => w.due.bikeId))]);
+  const fresh = work.filter((w) => !existing.has(w.due.bikeId, w.due.item.id, w.cycleKey));
+  if (!fresh.length) return 0;
+  const loads = await technicianLoads(db, [...new Set(fresh.map((w) => w.due.siteId))]);
+  const rows: (typeof serviceTasks.$inferInsert)[] = fresh.map(({ due: c, ...w }) => ({
+    bikeId: c.bikeId,
+    serviceItemId: c.item.id,
+    cycleKey: w.cycleKey,
+    origin: w.origin,
+    dueDate: w.dueDate,
+    estimatedMinutes: c.item.estimatedMinutes,
+    assigneeId: pickTechnician(loads.get(c.siteId), c.item.estimatedMinutes),
+    note: w.note,
+    raisedAt: now,
+  }));
   let raised = 0;
   for (let i = 0; i < rows.length; i += 500) {
     const inserted = await db.insert(serviceTasks).values(rows.slice(i, i + 500)).onConflictDoNothing().returning({ id: serviceTasks.id });
@@ -201,28 +222,16 @@ async function existingTasks(db: Writer, bikeIds: string[]) {
  * forward: an early valve task, once per due cycle, due today.
  */
 export async function raiseEarlyValveChecks(db: Writer, computed: ComputedDue[], warnedBikeIds: Set<string>, now: Date) {
-  const loads = await technicianLoads(db, [...new Set(computed.filter((c) => warnedBikeIds.has(c.bikeId)).map((c) => c.siteId))]);
-  const existing = await existingTasks(db, [...warnedBikeIds]);
-  const raised = await raiseTasks(
-    db,
-    computed.flatMap((c) => {
-      if (c.item.category !== 'valves' || !warnedBikeIds.has(c.bikeId)) return [];
-      const key = `trend:${cycleKey(c.result)}`;
-      if (existing.has(c.bikeId, c.item.id, key)) return [];
-      return [{
-        bikeId: c.bikeId,
-        serviceItemId: c.item.id,
-        cycleKey: key,
-        origin: 'trend' as const,
-        dueDate: c.today,
-        estimatedMinutes: c.item.estimatedMinutes,
-        assigneeId: pickTechnician(loads.get(c.siteId), c.item.estimatedMinutes),
-        note: 'Raised early: a valve is closing up faster than the interval allows.',
-        raisedAt: now,
-      }];
-    }),
-  );
-  return raised;
+  const work = computed
+    .filter((c) => c.item.category === 'valves' && warnedBikeIds.has(c.bikeId))
+    .map((c) => ({
+      due: c,
+      cycleKey: `trend:${cycleKey(c.result)}`,
+      origin: 'trend' as const,
+      dueDate: c.today,
+      note: 'Raised early: a valve is closing up faster than the interval allows.',
+    }));
+  return raiseTask(db, work, now);
 }
 
 /** Recomputes one bike (after a check-in or a closed task), inside the caller's transaction. */
