@@ -156,8 +156,9 @@ export function createApp(deps: AppDeps): Express {
   api.use('/', settingsRoutes(ctx));
   api.use('/', importRoutes(ctx));
   api.use('/', recordRoutes(ctx));
-  api.use('/', backupRoutes(ctx));
-  api.use('/', attachmentRoutes(ctx, deps.blobStore ?? createMemoryBlobStore(), { maxBytes: deps.uploadMaxBytes }));
+  const blobStore = deps.blobStore ?? createMemoryBlobStore();
+  api.use('/', backupRoutes(ctx, blobStore));
+  api.use('/', attachmentRoutes(ctx, blobStore, { maxBytes: deps.uploadMaxBytes }));
   api.use(apiNotFound);
 
   app.use('/api', api);

@@ -1,157 +1,131 @@
-import { PGlite } from '@electric-sql/pglite';
-import { eq, sql } from 'drizzle-orm';
-import { z } from 'zod';
-import type { Database, Tx } from '../db/client';
+import { readFile, stat } from 'node:fs/promises';
+import type { Writable } from 'node:stream';
+import { eq } from 'drizzle-orm';
+import type { Database } from '../db/client';
 import { users } from '../db/schema';
 import { audit } from '../audit';
-import { HttpError, badRequest } from '../http-error';
+import { HttpError } from '../http-error';
+import type { BlobStore } from '../storage/types';
 import type { RestoreReport } from '../../shared/schemas/imports';
-import { quote, readCatalog, schemaVersion, shapeDifferences, viaDrizzle, type Query, type TableInfo } from './backup-catalog';
+import { readCatalog, schemaVersion, shapeDifferences, viaDrizzle, type TableInfo } from './backup-catalog';
+import { DATABASE_MAX_BYTES, checkArchive, damaged, isArchive, writeArchive, type DumpFormat, type Manifest, type SchemaVersion } from './backup-archive';
+import { NOT_RESTORED, keysInDump, namedKeys, notBackup, openBareDump, openDump, replaceAll, snapshot, type Source } from './backup-dump';
+import { countAbsent, putFiles, removeFiles, type FilesPut } from './backup-files';
 
-// Two backup formats, one restore path.
-// - On PGlite the backup is the data directory itself (dumpDataDir, gzip): exact, and quick to make.
-// - On PostgreSQL, or on request, it is a portable JSON dump: schema version, then every table's rows
-//   in dependency order. It restores on either driver, across PostgreSQL versions.
-// Restoring reads the file into a source (a throwaway in-memory PGlite for a data directory), checks
-// that its tables and columns match this version, then replaces the live rows table by table in one
-// transaction, so a running server keeps its single database connection and a failure changes nothing.
-// Sessions are never restored: everyone signs in again.
+// A backup is one archive: the database dump, every stored file the attachment rows name, and a
+// manifest with each file's size and SHA-256 (see backup-archive.ts). A restore checks all of it
+// before it changes anything, writes the files, then replaces the rows in one transaction; if that
+// fails, the files it wrote are taken back out. Afterwards the store holds what the restored rows
+// name: files that only the replaced rows named are removed, since no screen could reach them.
+// Older backups (a bare data directory or JSON dump) still restore, the database alone.
 
-export const JSON_FORMAT = 'lashline-backup';
-// The data version counter stays the live database's own: the restore's writes move it on, so no
-// app instance keeps serving answers it cached before the restore.
-const KEPT = new Set(['data_versions']);
-const NOT_RESTORED = new Set(['sessions', ...KEPT]);
-const CHUNK = 5000;
+export interface BackupDeps {
+  database: Database;
+  store: BlobStore;
+  log: (line: string, e?: unknown) => void;
+}
 
-const orderBy = (t: TableInfo) => (t.key.length ? t.key.map(quote).join(', ') : `${quote(t.name)}::text`);
-const chunkSql = (t: TableInfo, offset: number) =>
-  `select coalesce(json_agg(row_to_json(x))::text, '[]') as j from (select * from ${quote(t.name)} order by ${orderBy(t)} limit ${CHUNK} offset ${offset}) x`;
-const countOf = async (q: Query, table: string) => Number((await q<{ n: number }>(`select count(*)::int as n from ${quote(table)}`))[0].n);
-
-/** The portable dump, written as text piece by piece so no table is held twice in memory. */
-export async function jsonDump(database: Database, now: Date): Promise<string> {
-  return database.db.transaction(
-    async (tx) => {
-      const q = viaDrizzle(tx);
-      const tables = (await readCatalog(q)).filter((t) => !NOT_RESTORED.has(t.name));
-      const head = { format: JSON_FORMAT, version: 1, createdAt: now.toISOString(), driver: database.kind, schemaVersion: await schemaVersion(q) };
-      const parts = [JSON.stringify(head).slice(0, -1), ',"tables":['];
-      for (const [i, t] of tables.entries()) {
-        parts.push(`${i ? ',' : ''}{"name":${JSON.stringify(t.name)},"columns":${JSON.stringify(t.columns)},"rows":[`);
-        const n = await countOf(q, t.name);
-        for (let offset = 0; offset < n; offset += CHUNK) {
-          const [{ j }] = await q<{ j: string }>(chunkSql(t, offset));
-          parts.push(`${offset ? ',' : ''}${j.slice(1, -1)}`);
-        }
-        parts.push(']}');
-      }
-      parts.push(']}');
-      return parts.join('');
-    },
-    { isolationLevel: 'repeatable read', accessMode: 'read only' },
+/** Streams the whole backup to `out`; answers what went in. */
+export async function writeBackup({ database, store }: BackupDeps, format: DumpFormat, now: Date, userId: string, out: Writable) {
+  const snap = await snapshot(database, format, now);
+  // Recorded before the first byte leaves: the file holds every password hash.
+  await audit(database.db, { userId, action: 'backup', entity: 'database', changes: { format, files: snap.files.length, databaseBytes: snap.bytes.length } });
+  return writeArchive(
+    { createdAt: now, driver: database.kind, schemaVersion: snap.schemaVersion, database: { format, bytes: snap.bytes }, files: snap.files, read: (key) => store.get(key) },
+    out,
   );
 }
 
-const JsonBackupSchema = z.object({
-  format: z.literal(JSON_FORMAT),
-  version: z.literal(1),
-  tables: z.array(z.object({ name: z.string(), columns: z.array(z.object({ name: z.string(), type: z.string() })), rows: z.array(z.record(z.string(), z.unknown())) })),
-});
+const describeVersion = (v: SchemaVersion) => `${v.migrations} migrations${v.lastMigrationAt ? `, the last of ${new Date(Number(v.lastMigrationAt)).toISOString().slice(0, 10)}` : ''}`;
 
-interface Source {
-  format: RestoreReport['format'];
-  tables: Pick<TableInfo, 'name' | 'columns'>[];
-  /** The table's rows as JSON arrays of at most CHUNK rows. */
-  chunks(table: TableInfo): AsyncIterable<string>;
-  close(): Promise<void>;
+const sameVersion = (a: SchemaVersion, b: SchemaVersion) => a.migrations === b.migrations && a.lastMigrationAt === b.lastMigrationAt;
+
+/** The backup's schema version (from its manifest, and from the dump itself) and its tables match this server's. */
+function checkFits(live: TableInfo[], liveVersion: SchemaVersion, source: Source, manifest?: Manifest) {
+  for (const theirs of [manifest?.schemaVersion, source.schemaVersion])
+    if (theirs && !sameVersion(theirs, liveVersion))
+      throw new HttpError(409, 'conflict', 'This backup was made by a different version of Lashline. Nothing was changed. Restore it on the version that made it, then upgrade.', [
+        { path: 'schemaVersion', message: `The backup’s database has ${describeVersion(theirs)}; this server’s has ${describeVersion(liveVersion)}.` },
+      ]);
+  const differences = shapeDifferences(live, source.tables, NOT_RESTORED);
+  if (differences.length)
+    throw new HttpError(409, 'conflict', 'This backup was made by a different version of Lashline: its tables do not match. Nothing was changed.', differences.slice(0, 50));
 }
 
-const notBackup = (why: string) => badRequest(`This file is not a Lashline backup, or it is damaged (${why}). Choose a file made by “Download a backup”.`, [{ path: 'file', message: why }]);
+/** Every file the backup's rows name is in the archive, or was already missing when the backup was made. */
+function checkFileList(manifest: Manifest, named: Set<string>) {
+  const listed = new Set([...manifest.files.map((f) => f.key), ...manifest.missing]);
+  const unlisted = [...named].filter((k) => !listed.has(k));
+  const extra = [...listed].filter((k) => !named.has(k));
+  if (unlisted.length || extra.length)
+    throw damaged(`its file list does not match its database (${unlisted.length} files named by records but not listed, ${extra.length} listed but named by no record)`);
+}
 
-async function dataDirSource(file: Buffer): Promise<Source> {
-  let pg: PGlite;
-  try {
-    pg = new PGlite({ loadDataDir: new Blob([new Uint8Array(file)]) });
-    await pg.waitReady;
-  } catch {
-    throw notBackup('the database in it does not open');
+interface Opened {
+  source: Source;
+  manifest?: Manifest;
+}
+
+async function open(path: string): Promise<Opened> {
+  if (await isArchive(path)) {
+    const checked = await checkArchive(path);
+    return { source: await openDump(checked.manifest.database.format, checked.database), manifest: checked.manifest };
   }
-  const q: Query = async <R>(text: string) => (await pg.query<R>(text)).rows;
+  if ((await stat(path)).size > DATABASE_MAX_BYTES) throw notBackup('it is not a backup archive, and too large to be a database dump');
+  return { source: await openBareDump(await readFile(path)) };
+}
+
+/**
+ * Replaces every table's rows and the stored files with the backup's, all or nothing.
+ * `path` is the uploaded file; `workDir` a private directory for the restore's own use.
+ */
+export async function restore({ database, store, log }: BackupDeps, path: string, workDir: string, userId: string): Promise<RestoreReport> {
+  const { source, manifest } = await open(path);
   try {
-    const tables = await readCatalog(q);
+    const q = viaDrizzle(database.db);
+    const live = await readCatalog(q);
+    checkFits(live, await schemaVersion(q), source, manifest);
+    const named = await keysInDump(source, live);
+    if (manifest) checkFileList(manifest, named);
+
+    // Checked through: from here on the store and then the database change.
+    const files: FilesPut | undefined = manifest ? await putFiles(store, path, manifest, workDir) : undefined;
+    let result: { tables: RestoreReport['tables']; unnamed: string[] };
+    try {
+      result = await database.db.transaction(async (tx) => {
+        const before = await namedKeys(tx);
+        const tables = await replaceAll(tx, live, source);
+        const after = await namedKeys(tx);
+        const [still] = await tx.select({ id: users.id }).from(users).where(eq(users.id, userId));
+        await audit(tx, {
+          userId: still ? userId : null,
+          action: 'restore',
+          entity: 'database',
+          changes: { format: source.format, tables, files: files ? { restored: files.restored, bytes: files.bytes } : 'not in the backup' },
+        });
+        return { tables, unnamed: [...before].filter((k) => !after.has(k)) };
+      });
+    } catch (e) {
+      await files?.undo();
+      throw e;
+    }
+    const inArchive = new Set(manifest?.files.map((f) => f.key));
+    const missing = await countAbsent(store, [...named].filter((k) => !inArchive.has(k)));
+    const removed = await removeFiles(store, result.unnamed, log);
     return {
-      format: 'data-dir',
-      tables,
-      async *chunks(t) {
-        const mine = tables.find((x) => x.name === t.name)!;
-        const n = await countOf(q, t.name);
-        for (let offset = 0; offset < n; offset += CHUNK) yield (await q<{ j: string }>(chunkSql(mine, offset)))[0].j;
+      format: source.format,
+      tables: result.tables,
+      files: {
+        included: !!manifest,
+        named: named.size,
+        restored: files?.restored ?? 0,
+        bytes: files?.bytes ?? 0,
+        alreadyStored: files?.alreadyStored ?? 0,
+        missing,
+        removed,
       },
-      close: () => pg.close(),
+      signedOut: true,
     };
-  } catch (e) {
-    await pg.close();
-    throw e;
-  }
-}
-
-function jsonSource(file: Buffer): Source {
-  let parsed: z.infer<typeof JsonBackupSchema>;
-  try {
-    parsed = JsonBackupSchema.parse(JSON.parse(file.toString('utf8')));
-  } catch {
-    throw notBackup('its contents are not a Lashline JSON dump');
-  }
-  return {
-    format: 'json',
-    tables: parsed.tables,
-    async *chunks(t) {
-      const rows = parsed.tables.find((x) => x.name === t.name)?.rows ?? [];
-      for (let i = 0; i < rows.length; i += CHUNK) yield JSON.stringify(rows.slice(i, i + CHUNK));
-    },
-    close: async () => {},
-  };
-}
-
-/** Gzip (1f 8b) or a plain tar ("ustar" at 257) is a data directory; "{" is the JSON dump. */
-async function openSource(file: Buffer): Promise<Source> {
-  if (file.length > 2 && file[0] === 0x1f && file[1] === 0x8b) return dataDirSource(file);
-  if (file.length > 262 && file.subarray(257, 262).toString('latin1') === 'ustar') return dataDirSource(file);
-  const first = file.subarray(0, 64).toString('utf8').trimStart()[0];
-  if (first === '{') return jsonSource(file);
-  throw notBackup('neither a data directory nor a JSON dump');
-}
-
-async function replaceAll(tx: Tx, live: TableInfo[], source: Source) {
-  await tx.execute(sql.raw(`truncate ${live.filter((t) => !KEPT.has(t.name)).map((t) => quote(t.name)).join(', ')}`));
-  const q = viaDrizzle(tx);
-  const counts: RestoreReport['tables'] = [];
-  for (const t of live) {
-    if (NOT_RESTORED.has(t.name)) continue;
-    for await (const chunk of source.chunks(t))
-      await tx.execute(sql`insert into ${sql.identifier(t.name)} select * from json_populate_recordset(null::${sql.identifier(t.name)}, ${chunk}::json)`);
-    for (const s of t.sequences)
-      await q(`select setval('${s.sequence.replace(/'/g, "''")}', coalesce((select max(${quote(s.column)}) from ${quote(t.name)}), 0) + 1, false)`);
-    counts.push({ name: t.name, rows: await countOf(q, t.name) });
-  }
-  return counts;
-}
-
-/** Replaces every table's rows with the backup's, all or nothing. */
-export async function restore(database: Database, file: Buffer, userId: string): Promise<RestoreReport> {
-  const source = await openSource(file);
-  try {
-    return await database.db.transaction(async (tx) => {
-      const live = await readCatalog(viaDrizzle(tx));
-      const differences = shapeDifferences(live, source.tables, NOT_RESTORED);
-      if (differences.length)
-        throw new HttpError(409, 'conflict', 'This backup was made by a different version of Lashline: its tables do not match. Nothing was changed.', differences.slice(0, 50));
-      const tables = await replaceAll(tx, live, source);
-      const [still] = await tx.select({ id: users.id }).from(users).where(eq(users.id, userId));
-      await audit(tx, { userId: still ? userId : null, action: 'restore', entity: 'database', changes: { format: source.format, tables } });
-      return { format: source.format, tables, signedOut: true as const };
-    });
   } finally {
     await source.close();
   }

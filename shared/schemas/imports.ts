@@ -2,8 +2,8 @@ import { z } from 'zod';
 
 /** A CSV file sent for checking or importing; a few years of a large fleet's readings fit well within it. */
 export const IMPORT_MAX_BYTES = 5 * 1024 * 1024;
-/** A backup file sent for restoring. */
-export const RESTORE_MAX_BYTES = 200 * 1024 * 1024;
+/** A backup file sent for restoring: the database and every photo and document. It waits on disk while it is checked. */
+export const RESTORE_MAX_BYTES = 20 * 1024 * 1024 * 1024;
 
 export const IMPORT_KINDS = ['bikes', 'readings'] as const;
 export type ImportKind = (typeof IMPORT_KINDS)[number];
@@ -38,10 +38,29 @@ export type ImportReport = z.infer<typeof ImportReportSchema>;
 
 export const BackupFormatSchema = z.object({ format: z.enum(['data-dir', 'json']).optional() });
 
+export const RestoreFilesSchema = z.object({
+  /** Whether the backup held the stored files; older backups hold the database only. */
+  included: z.boolean(),
+  /** Files the restored records name: photos, their previews and documents. */
+  named: z.number(),
+  /** Files put back from the backup, and their bytes. */
+  restored: z.number(),
+  bytes: z.number(),
+  /** Of those, how many the store already held with the same bytes. */
+  alreadyStored: z.number(),
+  /** Named by the restored records but in neither the backup nor the store. */
+  missing: z.number(),
+  /** Named only by the records the restore replaced: removed from the store. */
+  removed: z.number(),
+});
+export type RestoreFiles = z.infer<typeof RestoreFilesSchema>;
+
 export const RestoreReportSchema = z.object({
+  /** How the database was held: its data directory, or the portable JSON dump. */
   format: z.enum(['data-dir', 'json']),
   /** Rows now in each table, in the order they were restored. */
   tables: z.array(z.object({ name: z.string(), rows: z.number() })),
+  files: RestoreFilesSchema,
   /** Sessions are not restored: everyone, the person restoring included, signs in again. */
   signedOut: z.literal(true),
 });
