@@ -1,6 +1,6 @@
 import type { JobDeps, JobResult } from './types';
 import { loadDueInputs } from '../server/services/due-data';
-import { applyDue, computeAll, raiseEarlyValveChecks } from '../server/services/due';
+import { applyDue, computeAll } from '../server/services/due';
 import { valveWarningsFor } from '../server/services/valve-warnings';
 
 /**
@@ -12,18 +12,17 @@ export async function run(deps: JobDeps): Promise<JobResult> {
   const started = Date.now();
   const inputs = await loadDueInputs(deps.db, now);
   const computed = computeAll(inputs);
-  const report = await deps.db.transaction((tx) => applyDue(tx, computed, now));
+  // Valve trends do not depend on due states: read before the one transaction that writes everything.
   const warnings = await valveWarningsFor(deps.db, [...new Set(inputs.bikes.map((b) => b.siteId))]);
-  const early = await deps.db.transaction((tx) => raiseEarlyValveChecks(tx, computed, new Set(warnings.map((w) => w.bikeId)), now));
+  const report = await deps.db.transaction((tx) => applyDue(tx, computed, now, new Set(warnings.map((w) => w.bikeId))));
   const counts = { overdue: 0, soon: 0, ok: 0 };
   for (const c of computed) counts[c.result.status]++;
   const ms = Date.now() - started;
   return {
-    summary: `Scanned ${inputs.bikes.length} bikes, ${report.computed} items (${counts.overdue} overdue, ${counts.soon} due soon): ${report.tasksRaised} new tasks, ${early} early valve checks for closing valves, ${report.bikesGrounded} bikes grounded, in ${ms} ms.`,
+    summary: `Scanned ${inputs.bikes.length} bikes, ${report.computed} items (${counts.overdue} overdue, ${counts.soon} due soon): ${report.tasksRaised} new tasks, ${report.earlyValveChecks} early valve checks for closing valves, ${report.bikesGrounded} bikes grounded, in ${ms} ms.`,
     bikes: inputs.bikes.length,
     ...counts,
     ...report,
-    earlyValveChecks: early,
     valveWarnings: warnings.length,
     ms,
   };

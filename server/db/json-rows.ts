@@ -17,6 +17,12 @@ export async function jsonTuples<T extends unknown[]>(db: DbOrTx, query: SQL, or
   return aggregate<T>(db, sql`json_agg(q.a${orderBy ? sql` order by ${orderBy}` : sql``})`, query);
 }
 
+/**
+ * Ids as one uuid[] parameter, for `= any(…)`: thousands of ids cost one parameter, not thousands.
+ * Only for ids the database itself handed out (UUIDs need no quoting inside an array literal).
+ */
+export const uuidArray = (ids: readonly string[]) => sql`${`{${ids.join(',')}}`}::uuid[]`;
+
 /** Values for `in (…)`, one parameter each. An empty list matches nothing. */
 export const sqlList = (values: readonly string[]) => (values.length ? sql.join(values.map((v) => sql`${v}`), sql`, `) : sql`null`);
 

@@ -5,6 +5,7 @@ import { computeDue, type DueResult } from '../../shared/domain/due';
 import { toKm } from '../../shared/domain/units';
 import { usageRate } from '../../shared/domain/usage';
 import { doneKey, loadDueInputs, type DueInputs } from './due-data';
+import { uuidArray } from '../db/json-rows';
 
 
 export interface ComputedDue {
@@ -120,22 +121,24 @@ function pickTechnician(pool: { userId: string; minutes: number }[] | undefined,
 export interface ApplyReport {
   computed: number;
   tasksRaised: number;
+  /** Valve checks brought forward for bikes with a closing valve (counted apart from tasksRaised). */
+  earlyValveChecks: number;
   bikesGrounded: number;
 }
 
 /**
  * Stores the due states, raises one task per item and due cycle that is overdue or soon (the unique
- * cycle key makes a repeat, a concurrent run or a restart raise nothing twice), and grounds bikes with
- * an overdue safety-critical item.
+ * cycle key makes a repeat, a concurrent run or a restart raise nothing twice), brings the valve
+ * check forward on bikes whose valves close up too fast (`closingValveBikes`: the scan passes the
+ * bikes with a valve warning), and grounds bikes with an overdue safety-critical item.
  */
-export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): Promise<ApplyReport> {
+export async function applyDue(db: Writer, computed: ComputedDue[], now: Date, closingValveBikes?: ReadonlySet<string>): Promise<ApplyReport> {
   await saveStates(db, computed, now);
   const wanted = computed.filter((c) => c.result.status !== 'ok');
-  const tasksRaised = await raiseTask(
-    db,
-    wanted.map((c) => ({ due: c, cycleKey: cycleKey(c.result), dueDate: c.result.dueDate })),
-    now,
-  );
+  const work: WorkToRaise[] = wanted.map((c) => ({ due: c, cycleKey: cycleKey(c.result), dueDate: c.result.dueDate }));
+  // After the due work: a valve check that falls due anyway is not raised a second time early.
+  if (closingValveBikes?.size) work.push(...earlyValveWork(computed, closingValveBikes));
+  const raised = await raiseTask(db, work, now);
   const unsafe = new Map<string, string[]>();
   for (const c of wanted) {
     if (c.result.status === 'overdue' && c.item.safetyCritical) unsafe.set(c.bikeId, [...(unsafe.get(c.bikeId) ?? []), c.item.name]);
@@ -155,8 +158,7 @@ export async function applyDue(db: Writer, computed: ComputedDue[], now: Date): 
       grounded.map(({ id: bikeId, reason }) => ({ userId: null, action: 'grounded', entity: 'bike', entityId: bikeId, changes: { status: ['in_service', 'out_of_service'], reason } })),
     );
   }
-  const bikesGrounded = grounded.length;
-  return { computed: computed.length, tasksRaised, bikesGrounded };
+  return { computed: computed.length, tasksRaised: raised.due, earlyValveChecks: raised.early, bikesGrounded: grounded.length };
 }
 
 /** Work the scan would raise for one computed item, in one due cycle. */
@@ -170,32 +172,45 @@ interface WorkToRaise {
 
 /**
  * Raises the work not already raised for its cycle (nor open already), each task given to the least
- * loaded technician of the bike's site, a few hundred rows per statement. The unique (bike, item,
+ * loaded technician of the bike's site, in one statement. The unique (bike, item,
  * cycle) key turns a task another run raised meanwhile into no row. Returns how many were raised.
  */
-async function raiseTask(db: Writer, work: WorkToRaise[], now: Date) {
-  if (!work.length) return 0;
+async function raiseTask(db: Writer, work: WorkToRaise[], now: Date): Promise<{ due: number; early: number }> {
+  if (!work.length) return { due: 0, early: 0 };
   const existing = await existingTasks(db, [...new Set(work.map((w) => w.due.bikeId))]);
-  const fresh = work.filter((w) => !existing.has(w.due.bikeId, w.due.item.id, w.cycleKey));
-  if (!fresh.length) return 0;
+  // One open task per bike and item: the first piece of work for a pair wins.
+  const taken = new Set<string>();
+  const fresh = work.filter((w) => {
+    const pair = doneKey(w.due.bikeId, w.due.item.id);
+    if (taken.has(pair) || existing.has(w.due.bikeId, w.due.item.id, w.cycleKey)) return false;
+    taken.add(pair);
+    return true;
+  });
+  if (!fresh.length) return { due: 0, early: 0 };
   const loads = await technicianLoads(db, [...new Set(fresh.map((w) => w.due.siteId))]);
-  const rows: (typeof serviceTasks.$inferInsert)[] = fresh.map(({ due: c, ...w }) => ({
-    bikeId: c.bikeId,
-    serviceItemId: c.item.id,
-    cycleKey: w.cycleKey,
-    origin: w.origin,
-    dueDate: w.dueDate,
-    estimatedMinutes: c.item.estimatedMinutes,
-    assigneeId: pickTechnician(loads.get(c.siteId), c.item.estimatedMinutes),
-    note: w.note,
-    raisedAt: now,
+  const rows = fresh.map(({ due: c, ...w }) => ({
+    bike_id: c.bikeId,
+    service_item_id: c.item.id,
+    cycle_key: w.cycleKey,
+    origin: w.origin ?? 'due-scan',
+    due_date: w.dueDate,
+    estimated_minutes: c.item.estimatedMinutes,
+    assignee_id: pickTechnician(loads.get(c.siteId), c.item.estimatedMinutes),
+    note: w.note ?? null,
   }));
-  let raised = 0;
-  for (let i = 0; i < rows.length; i += 500) {
-    const inserted = await db.insert(serviceTasks).values(rows.slice(i, i + 500)).onConflictDoNothing().returning({ id: serviceTasks.id });
-    raised += inserted.length;
-  }
-  return raised;
+  // One statement with the rows as one JSON value: building thousands of bound parameters costs more than the insert.
+  const { rows: counted } = (await db.execute(sql`
+    with raised as (
+      insert into service_tasks (bike_id, service_item_id, cycle_key, origin, due_date, estimated_minutes, assignee_id, note, raised_at)
+      select bike_id, service_item_id, cycle_key, origin, due_date, estimated_minutes, assignee_id, note, ${now.toISOString()}::timestamptz
+        from jsonb_to_recordset(${JSON.stringify(rows)}::jsonb)
+             as x(bike_id uuid, service_item_id uuid, cycle_key text, origin text, due_date date, estimated_minutes integer, assignee_id uuid, note text)
+      on conflict do nothing
+      returning origin)
+    select (count(*) filter (where origin <> 'trend'))::int as due, (count(*) filter (where origin = 'trend'))::int as early from raised`)) as unknown as {
+    rows: { due: number; early: number }[];
+  };
+  return { due: Number(counted[0].due), early: Number(counted[0].early) };
 }
 
 /**
@@ -209,7 +224,7 @@ async function existingTasks(db: Writer, bikeIds: string[]) {
   const rows = await db
     .select({ bikeId: serviceTasks.bikeId, itemId: serviceTasks.serviceItemId, key: serviceTasks.cycleKey, status: serviceTasks.status })
     .from(serviceTasks)
-    .where(inArray(serviceTasks.bikeId, bikeIds));
+    .where(sql`${serviceTasks.bikeId} = any(${uuidArray(bikeIds)})`);
   for (const r of rows) {
     cycles.add(`${r.bikeId}:${r.itemId}:${r.key}`);
     if (r.status === 'open' || r.status === 'in_progress') open.add(`${r.bikeId}:${r.itemId}`);
@@ -221,9 +236,9 @@ async function existingTasks(db: Writer, bikeIds: string[]) {
  * A valve whose clearance trend reaches the spec minimum before its next check brings that check
  * forward: an early valve task, once per due cycle, due today.
  */
-export async function raiseEarlyValveChecks(db: Writer, computed: ComputedDue[], warnedBikeIds: Set<string>, now: Date) {
-  const work = computed
-    .filter((c) => c.item.category === 'valves' && warnedBikeIds.has(c.bikeId))
+function earlyValveWork(computed: ComputedDue[], closingValveBikes: ReadonlySet<string>): WorkToRaise[] {
+  return computed
+    .filter((c) => c.item.category === 'valves' && closingValveBikes.has(c.bikeId))
     .map((c) => ({
       due: c,
       cycleKey: `trend:${cycleKey(c.result)}`,
@@ -231,7 +246,6 @@ export async function raiseEarlyValveChecks(db: Writer, computed: ComputedDue[],
       dueDate: c.today,
       note: 'Raised early: a valve is closing up faster than the interval allows.',
     }));
-  return raiseTask(db, work, now);
 }
 
 /** Recomputes one bike (after a check-in or a closed task), inside the caller's transaction. */

@@ -11,9 +11,9 @@ const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
 const MS_PER_DAY = 86_400_000;
 
 interface Ymd {
-  year: number;
-  month: number; // 1–12
-  day: number;
+  readonly year: number;
+  readonly month: number; // 1–12
+  readonly day: number;
 }
 
 const MONTH_DAYS = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
@@ -35,7 +35,20 @@ function utcMs(year: number, month: number, day: number): number {
   return d.getTime();
 }
 
+// A fleet-wide computation parses the same few hundred dates (today, service dates) over and over.
+const parsed = new Map<string, Ymd | null>();
+const PARSED_MAX = 4096;
+
 function parts(date: string): Ymd | null {
+  let p = parsed.get(date);
+  if (p !== undefined) return p;
+  p = parse(date);
+  if (parsed.size >= PARSED_MAX) parsed.clear();
+  parsed.set(date, p);
+  return p;
+}
+
+function parse(date: string): Ymd | null {
   const m = ISO_DATE.exec(date);
   if (!m) return null;
   const ymd = { year: Number(m[1]), month: Number(m[2]), day: Number(m[3]) };
@@ -67,8 +80,9 @@ export function assertIsoDate(value: unknown, label = 'date'): asserts value is 
 }
 
 function ymd(date: IsoDate, label?: string): Ymd {
-  assertIsoDate(date, label);
-  return parts(date) as Ymd;
+  const p = typeof date === 'string' ? parts(date) : null;
+  if (!p) assertIsoDate(date, label);
+  return p as Ymd;
 }
 
 function assertWhole(n: number, what: string): void {
