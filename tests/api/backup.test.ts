@@ -369,6 +369,7 @@ describe('restore on a new machine', () => {
     const source = { rows: await fingerprint(), files: await storedFiles(t.database, t.store) };
     const file = (await download(as.admin)).body as Buffer;
     const manifest = manifestOf(await unpack(file));
+    const entries = await unpack((await download(as.admin, 'json')).body as Buffer);
 
     const dir = await tempDir();
     // On PostgreSQL the test database is emptied instead (one server for the suite).
@@ -383,7 +384,6 @@ describe('restore on a new machine', () => {
 
       // First a restore whose rows the database refuses (a bike twice, checksums made to fit):
       // the files it wrote are taken out again.
-      const entries = await unpack((await download(as.admin, 'json')).body as Buffer);
       const dumpName = 'lashline-backup/database/dump.json';
       {
         const dump = JSON.parse(entries.get(dumpName)!.toString('utf8'));
