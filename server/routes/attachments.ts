@@ -86,7 +86,7 @@ export function attachmentRoutes(ctx: AppContext, store: BlobStore, opts: Attach
       const storageKey = newBlobKey();
       const thumbKey = info.thumb ? newBlobKey() : null;
       try {
-        await store.put(storageKey, file.buffer, info.mime);
+        await store.put(storageKey, info.bytes, info.mime);
         if (thumbKey && info.thumb) await store.put(thumbKey, info.thumb, THUMB_MIME);
         const row = await db.transaction(async (tx) => {
           const [a] = await tx
@@ -99,7 +99,7 @@ export function attachmentRoutes(ctx: AppContext, store: BlobStore, opts: Attach
               storageKey,
               thumbKey,
               mime: info.mime,
-              bytes: file.size,
+              bytes: info.bytes.length,
               width: info.width,
               height: info.height,
               originalName: file.originalname.replace(/\p{Cc}/gu, '').slice(0, 255) || null,

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import sharp from 'sharp';
+import exifr from 'exifr';
 import { mkdtemp, rm, stat } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -11,6 +12,7 @@ import { testConfig } from '../../server/config';
 import type { Database } from '../../server/db/client';
 import { attachments, defects, serviceTasks } from '../../server/db/schema';
 import { createBlobStore, createDiskBlobStore, createMemoryBlobStore } from '../../server/storage';
+import { isLosslessWebp } from '../../server/services/attachment-files';
 import { newBlobKey } from '../../server/storage/keys';
 import type { BlobStore } from '../../server/storage/types';
 import { agent, manualClock, testDatabase, type Agent } from '../support/test-app';
@@ -80,8 +82,10 @@ describe('POST /api/bikes/:id/attachments', () => {
     const res = await upload(as.desk, bytes);
     expect(res.status).toBe(201);
     const a = res.body.attachment;
-    expect(a).toMatchObject({ bikeId: w.bikeA.id, kind: 'photo', mime: 'image/jpeg', bytes: bytes.length, width: 1200, height: 800, name: 'front-brake.jpg' });
+    expect(a).toMatchObject({ bikeId: w.bikeA.id, kind: 'photo', mime: 'image/jpeg', width: 1200, height: 800, name: 'front-brake.jpg' });
     expect(a.uploadedBy).toBe(w.people.desk.id);
+    // The size recorded is that of the bytes served, which are the re-encoded photo.
+    expect(a.bytes).toBe(((await as.desk.get(a.url)).body as Buffer).length);
     expect(a.thumbUrl).toBe(`/api/attachments/${a.id}/thumb`);
     const thumb = await as.desk.get(a.thumbUrl);
     expect(thumb.headers['content-type']).toBe('image/webp');
@@ -158,6 +162,142 @@ describe('POST /api/bikes/:id/attachments', () => {
   });
 });
 
+// What a phone puts in a photo: where it was taken (the GPS IFD), the camera and the time in EXIF,
+// the place again in XMP, and an orientation tag telling viewers to turn the picture.
+const GPS = { GPSLatitudeRef: 'N', GPSLatitude: '52/1 57/1 1234/100', GPSLongitudeRef: 'E', GPSLongitude: '1/1 17/1 0/1' };
+const XMP =
+  '<?xpacket begin="" id="W5M0MpCehiHzreSzNTczkc9d"?><x:xmpmeta xmlns:x="adobe:ns:meta/"><rdf:RDF xmlns:rdf="http://www.w3.org/1999/02/22-rdf-syntax-ns#">' +
+  '<rdf:Description rdf:about="" xmlns:exif="http://ns.adobe.com/exif/1.0/" exif:GPSLatitude="52,57.2N" exif:GPSLongitude="1,17.0E"/></rdf:RDF></x:xmpmeta><?xpacket end="w"?>';
+const RED = [0xc0, 0x30, 0x2a];
+const BLUE = [0x2c, 0x47, 0xb0];
+/** 60 × 40 as the sensor saw it: the left half red, the right half blue. */
+async function phonePhoto(format: 'jpeg' | 'png' | 'webp', opts: { orientation?: number; lossless?: boolean } = {}) {
+  const left = await sharp({ create: { width: 30, height: 40, channels: 3, background: '#c0302a' } }).png().toBuffer();
+  return sharp({ create: { width: 60, height: 40, channels: 3, background: '#2c47b0' } })
+    .composite([{ input: left, left: 0, top: 0 }])
+    .withExif({ IFD0: { Make: 'Workshop test camera' }, IFD2: { DateTimeOriginal: '2026:04:06 08:30:00' }, IFD3: GPS })
+    .withMetadata({ orientation: opts.orientation ?? 6 })
+    .withXmp(XMP)
+    .toFormat(format, opts.lossless ? { lossless: true } : {})
+    .toBuffer();
+}
+const pixel = async (bytes: Buffer, x: number, y: number) => {
+  const { data, info } = await sharp(bytes).raw().toBuffer({ resolveWithObject: true });
+  const at = (y * info.width + x) * info.channels;
+  return [data[at], data[at + 1], data[at + 2]];
+};
+const near = (got: number[], want: number[], by = 12) => got.every((v, i) => Math.abs(v - want[i]) <= by);
+// The chunks of a WebP file, walked as RFC 9649 (WebP Image Format), section 2.7, lays them out.
+function webpChunks(b: Buffer) {
+  const names: string[] = [];
+  for (let at = 12; at + 8 <= b.length; ) {
+    const size = b.readUInt32LE(at + 4);
+    names.push(b.toString('latin1', at, at + 4));
+    at += 8 + size + (size % 2);
+  }
+  return names;
+}
+// exifr (an independent EXIF, XMP and IPTC reader) is the outside reference for what a file carries.
+const everything = { tiff: true, ifd0: true, exif: true, gps: true, interop: true, ifd1: true, xmp: true, iptc: true, icc: false, jfif: false, ihdr: false } as const;
+const download = async (a: { url: string }) => (await as.technician.get(a.url)).body as Buffer;
+
+describe('photos are stored without the metadata a phone writes', () => {
+  it('keeps a JPEG as JPEG, upright, with no location and no EXIF at all', async () => {
+    const sent = await phonePhoto('jpeg');
+    const place = await exifr.gps(sent);
+    expect(place.latitude).toBeCloseTo(52 + 57 / 60 + 12.34 / 3600, 6);
+    expect(place.longitude).toBeCloseTo(1 + 17 / 60, 6);
+    // CIPA DC-008 (Exif 2.32), Orientation 6: shown turned 90° clockwise, so width and height swap.
+    expect(await exifr.orientation(sent)).toBe(6);
+    expect(await exifr.rotation(sent)).toMatchObject({ deg: 90, dimensionSwapped: true });
+
+    const res = await upload(as.technician, sent, 'rear-tyre.jpg');
+    expect(res.status).toBe(201);
+    const a = res.body.attachment;
+    expect(a).toMatchObject({ mime: 'image/jpeg', width: 40, height: 60, name: 'rear-tyre.jpg' });
+    const stored = await download(a);
+    expect(stored.length).toBe(a.bytes);
+    expect(await exifr.gps(stored)).toBeUndefined();
+    expect(await exifr.parse(stored, everything)).toBeUndefined();
+    expect(await exifr.orientation(stored)).toBeUndefined();
+    const meta = await sharp(stored).metadata();
+    expect([meta.format, meta.width, meta.height]).toEqual(['jpeg', 40, 60]);
+    // Turned clockwise, the sensor's left (red) half is now the top, its right (blue) half the bottom.
+    expect(near(await pixel(stored, 20, 10), RED)).toBe(true);
+    expect(near(await pixel(stored, 20, 50), BLUE)).toBe(true);
+    // The WebP preview carries none either.
+    expect(webpChunks(await download({ url: a.thumbUrl })).filter((c) => c === 'EXIF' || c === 'XMP ')).toEqual([]);
+  });
+
+  it('keeps a PNG as PNG, upright and pixel for pixel, without its eXIf chunk or XMP', async () => {
+    const sent = await phonePhoto('png');
+    expect(await exifr.gps(sent)).toMatchObject({ latitude: expect.any(Number) });
+    expect(await exifr.orientation(sent)).toBe(6);
+    const a = (await upload(as.technician, sent, 'chain.png', 'image/png')).body.attachment;
+    expect(a).toMatchObject({ mime: 'image/png', width: 40, height: 60 });
+    const stored = await download(a);
+    expect(stored.length).toBe(a.bytes);
+    expect(await exifr.parse(stored, everything)).toBeUndefined();
+    expect((await sharp(stored).metadata()).format).toBe('png');
+    // PNG is lossless (ISO/IEC 15948): the colours come back exactly.
+    expect(await pixel(stored, 20, 10)).toEqual(RED);
+    expect(await pixel(stored, 20, 50)).toEqual(BLUE);
+  });
+
+  it('keeps a WebP as WebP without EXIF or XMP chunks, and a lossless one lossless', async () => {
+    for (const lossless of [false, true]) {
+      const sent = await phonePhoto('webp', { lossless });
+      expect(webpChunks(sent)).toEqual(expect.arrayContaining(['VP8X', 'EXIF', 'XMP ']));
+      const a = (await upload(as.technician, sent, 'fork-seal.webp', 'image/webp')).body.attachment;
+      expect(a).toMatchObject({ mime: 'image/webp', width: 40, height: 60 });
+      const stored = await download(a);
+      expect(stored.length).toBe(a.bytes);
+      const chunks = webpChunks(stored);
+      expect(chunks).not.toContain('EXIF');
+      expect(chunks).not.toContain('XMP ');
+      // RFC 9649: 'VP8L' holds the lossless coding, 'VP8 ' the lossy one.
+      expect(chunks).toContain(lossless ? 'VP8L' : 'VP8 ');
+      expect(isLosslessWebp(stored)).toBe(lossless);
+      expect(near(await pixel(stored, 20, 10), RED, lossless ? 0 : 12)).toBe(true);
+      expect(near(await pixel(stored, 20, 50), BLUE, lossless ? 0 : 12)).toBe(true);
+    }
+  });
+
+  it('records what is stored: the listed size and dimensions are those of the served file', async () => {
+    const a = (await upload(as.desk, await phonePhoto('jpeg', { orientation: 8 }), 'mirror.jpg')).body.attachment;
+    const [row] = await database.db.select().from(attachments).where(eq(attachments.id, a.id));
+    const stored = await download(a);
+    const meta = await sharp(stored).metadata();
+    expect({ bytes: row.bytes, width: row.width, height: row.height, mime: row.mime }).toEqual({ bytes: stored.length, width: meta.width, height: meta.height, mime: 'image/jpeg' });
+    // Orientation 8 is a quarter turn the other way (CIPA DC-008): the red half ends at the bottom.
+    expect([meta.width, meta.height]).toEqual([40, 60]);
+    expect(near(await pixel(stored, 20, 50), RED)).toBe(true);
+  });
+
+  it('leaves a PDF byte for byte as sent', async () => {
+    const a = (await upload(as.manager, pdf, 'service-sheet.pdf', 'application/pdf')).body.attachment;
+    const stored = await download(a);
+    expect(Buffer.compare(stored, pdf)).toBe(0);
+    expect(a.bytes).toBe(pdf.length);
+  });
+
+  it('refuses a HEIC it cannot clean, and a moving image, saying what to send instead', async () => {
+    const before = { blobs: store.size, rows: await rows() };
+    // An ISO/IEC 23008-12 file type box with the 'heic' brand, then HEVC data the server cannot decode.
+    const heic = Buffer.concat([Buffer.from([0, 0, 0, 0x18]), Buffer.from('ftypheic'), Buffer.alloc(4), Buffer.from('mif1heic'), Buffer.alloc(400, 3)]);
+    const h = await upload(as.desk, heic, 'IMG_0042.HEIC', 'image/heic');
+    expect(h.status).toBe(400);
+    expect(h.body.error.code).toBe('validation_failed');
+    expect(h.body.error.message).toMatch(/HEIC.*JPEG/);
+    const frame = (c: string) => sharp({ create: { width: 40, height: 30, channels: 3, background: c } }).png().toBuffer();
+    const moving = await sharp([await frame('#c0302a'), await frame('#2c47b0')], { join: { animated: true } }).webp().toBuffer();
+    const m = await upload(as.desk, moving, 'brake-light.webp', 'image/webp');
+    expect(m.status).toBe(400);
+    expect(m.body.error.message).toMatch(/still photo/);
+    expect({ blobs: store.size, rows: await rows() }).toEqual(before);
+  });
+});
+
 describe('reading attachments', () => {
   it('lists a bike’s files for its site only, newest first', async () => {
     expect((await request(app).get(url())).status).toBe(401);
@@ -174,7 +314,9 @@ describe('reading attachments', () => {
     const res = await as.technician.get(a.url);
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toBe('image/jpeg');
-    expect(Buffer.compare(res.body as Buffer, bytes)).toBe(0);
+    expect((res.body as Buffer).length).toBe(a.bytes);
+    const served = await sharp(res.body as Buffer).metadata();
+    expect([served.format, served.width, served.height]).toEqual(['jpeg', 80, 60]);
     // RFC 6266: a quoted ASCII filename, and the UTF-8 one in RFC 8187 form beside it.
     expect(res.headers['content-disposition']).toBe(`inline; filename="Olwechsel _neu_.jpg"; filename*=UTF-8''%C3%96lwechsel%20_neu_.jpg`);
     expect(res.headers['x-content-type-options']).toBe('nosniff');
@@ -228,7 +370,7 @@ describe('blob stores', () => {
     await desk.login(w.people.desk.email, PASSWORD);
     const a = (await upload(desk, bytes)).body.attachment;
     expect(s3.objects.size).toBe(2);
-    expect(Buffer.compare((await desk.get(a.url)).body as Buffer, bytes)).toBe(0);
+    expect(((await desk.get(a.url)).body as Buffer).length).toBe(a.bytes);
     expect((await desk.delete(a.url)).status).toBe(204);
     expect(s3.objects.size).toBe(0);
   });
