@@ -1,7 +1,7 @@
 import type { JobDeps, JobResult } from './types';
 import { loadDueInputs } from '../server/services/due-data';
 import { applyDue, computeAll } from '../server/services/due';
-import { valveWarningsFor } from '../server/services/valve-warnings';
+import { valveWarningsForScan } from '../server/services/valve-warnings';
 
 /**
  * The due scan: every bike × service item through computeDue, results stored, one task per
@@ -13,7 +13,7 @@ export async function run(deps: JobDeps): Promise<JobResult> {
   const inputs = await loadDueInputs(deps.db, now);
   const computed = computeAll(inputs);
   // Valve trends do not depend on due states: read before the one transaction that writes everything.
-  const warnings = await valveWarningsFor(deps.db, [...new Set(inputs.bikes.map((b) => b.siteId))]);
+  const warnings = await valveWarningsForScan(deps.db, inputs);
   const report = await deps.db.transaction((tx) => applyDue(tx, computed, now, new Set(warnings.map((w) => w.bikeId))));
   const counts = { overdue: 0, soon: 0, ok: 0 };
   for (const c of computed) counts[c.result.status]++;

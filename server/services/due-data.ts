@@ -9,6 +9,7 @@ import { toKm, type OdometerUnit } from '../../shared/domain/units';
 /** What the due computation needs of a bike. */
 export interface DueBike {
   id: string;
+  fleetNumber: string;
   siteId: string;
   modelId: string;
   inServiceDate: string;
@@ -39,16 +40,16 @@ const USAGE_WINDOW_DAYS = 90;
  */
 export async function loadDueInputs(db: DbOrTx, now: Date, bikeIds?: string[]): Promise<DueInputs> {
   const scope = bikeIds ? sql`b.id in (${sqlList(bikeIds)})` : sql`b.status <> 'retired'`;
-  const bikeRows = await jsonTuples<[string, string, string, string, number, OdometerUnit, string]>(
+  const bikeRows = await jsonTuples<[string, string, string, string, number, OdometerUnit, string, string]>(
     db,
-    sql`select json_build_array(b.id, b.site_id, b.model_id, b.in_service_date, b.in_service_odometer, b.odometer_unit, s.time_zone) as a
+    sql`select json_build_array(b.id, b.site_id, b.model_id, b.in_service_date, b.in_service_odometer, b.odometer_unit, s.time_zone, b.fleet_number) as a
           from bikes b join sites s on s.id = b.site_id where ${scope}`,
   );
   // One calendar date per time zone, not per bike.
   const todays = new Map<string, string>();
   const today = (zone: string) => todays.get(zone) ?? todays.set(zone, todayInZone(zone, now)).get(zone)!;
-  const list: DueBike[] = bikeRows.map(([id, siteId, modelId, inServiceDate, inServiceOdometer, odometerUnit, timeZone]) => ({
-    id, siteId, modelId, inServiceDate, inServiceOdometer, odometerUnit, timeZone, today: today(timeZone),
+  const list: DueBike[] = bikeRows.map(([id, siteId, modelId, inServiceDate, inServiceOdometer, odometerUnit, timeZone, fleetNumber]) => ({
+    id, fleetNumber, siteId, modelId, inServiceDate, inServiceOdometer, odometerUnit, timeZone, today: today(timeZone),
   }));
   const ids = list.map((b) => b.id);
   const readings = new Map<string, KmReading[]>(ids.map((id) => [id, []]));

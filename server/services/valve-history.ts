@@ -8,6 +8,7 @@ import type { ValveTrendView } from '../../shared/schemas/valves';
 import { toModelSummary } from './models';
 import { dueAtKmFor } from '../../shared/domain/due';
 import { toKm, type OdometerUnit } from '../../shared/domain/units';
+import { doneKey, type DueInputs } from './due-data';
 
 const mm = (um: number | null) => (um == null ? null : um / 1000);
 
@@ -80,6 +81,33 @@ export async function trendsForBikes(db: DbOrTx, where: { bikeIds?: string[]; si
   // One query after the other: a transaction's single connection cannot run two at once.
   const readings = await readingsForBikes(db, ids, where.bikeIds ? undefined : where.siteIds);
   const nextKm = await nextValveCheckKm(db, ids, where.bikeIds ? undefined : where.siteIds);
+  return trendsOf(list, readings, nextKm);
+}
+
+/**
+ * The same trends for every bike the due scan has just read: the bikes, their plans and last
+ * services come from the scan's own inputs, so only the valve readings are read again.
+ */
+export async function trendsForDueInputs(db: DbOrTx, inputs: DueInputs): Promise<BikeTrends[]> {
+  if (!inputs.bikes.length) return [];
+  const models = new Map((await db.select().from(bikeModels).where(inArray(bikeModels.id, [...inputs.itemsByModel.keys()]))).map((m) => [m.id, m]));
+  const list = inputs.bikes.flatMap((b) => {
+    const model = models.get(b.modelId);
+    return model ? [{ id: b.id, fleetNumber: b.fleetNumber, model }] : [];
+  });
+  const readings = await readingsForBikes(db, list.map((b) => b.id), [...new Set(inputs.bikes.map((b) => b.siteId))]);
+  const nextKm = new Map<string, number | null>();
+  for (const b of inputs.bikes) {
+    const item = inputs.itemsByModel.get(b.modelId)?.find((i) => i.category === 'valves');
+    if (!item) continue;
+    nextKm.set(b.id, dueAtKmFor(item, inputs.lastDone.get(doneKey(b.id, item.id)) ?? null, { date: b.inServiceDate, odometerKm: toKm(b.inServiceOdometer, b.odometerUnit) }));
+  }
+  return trendsOf(list, readings, nextKm);
+}
+
+type TrendBike = { id: string; fleetNumber: string; model: typeof bikeModels.$inferSelect };
+
+function trendsOf(list: TrendBike[], readings: Map<string, StoredValveReading[]>, nextKm: Map<string, number | null>): BikeTrends[] {
   return list.map((b) => {
     const m = toModelSummary(b.model);
     const histories = valveHistories(readings.get(b.id) ?? []);

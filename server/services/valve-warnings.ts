@@ -1,5 +1,6 @@
 import type { DbOrTx } from '../db/client';
-import { trendsForBikes } from './valve-history';
+import { trendsForBikes, trendsForDueInputs, type BikeTrends } from './valve-history';
+import type { DueInputs } from './due-data';
 
 export interface ValveWarning {
   bikeId: string;
@@ -13,7 +14,15 @@ const km = (v: number | null) => (v == null ? '—' : `${Math.round(v).toLocaleS
 
 /** Valves whose clearance trend reaches the spec minimum before their next scheduled check. */
 export async function valveWarningsFor(db: DbOrTx, siteIds: string[], bikeIds?: string[]): Promise<ValveWarning[]> {
-  const trends = await trendsForBikes(db, bikeIds ? { bikeIds } : { siteIds });
+  return warningsOf(await trendsForBikes(db, bikeIds ? { bikeIds } : { siteIds }));
+}
+
+/** The same warnings for every bike the due scan has just read, from its own inputs. */
+export async function valveWarningsForScan(db: DbOrTx, inputs: DueInputs): Promise<ValveWarning[]> {
+  return warningsOf(await trendsForDueInputs(db, inputs));
+}
+
+function warningsOf(trends: BikeTrends[]): ValveWarning[] {
   const out: ValveWarning[] = [];
   for (const b of trends) {
     for (const v of b.valves) {

@@ -5,6 +5,8 @@ import { PASSWORD, makeBike, makeServiceItem, world } from '../support/factories
 import { odometerReadings, serviceRecords, serviceTasks, shimStock, valveChecks, valveReadings } from '../../server/db/schema';
 import { valveLayout } from '../../shared/domain/valves';
 import { toModelSummary } from '../../server/services/models';
+import { valveWarningsFor, valveWarningsForScan } from '../../server/services/valve-warnings';
+import { loadDueInputs } from '../../server/services/due-data';
 
 const clock = manualClock('2026-06-15T09:00:00Z');
 let t: TestContext;
@@ -141,6 +143,10 @@ describe('clearance trends and stock', () => {
     expect(early).toHaveLength(1);
     const warnings = await as.manager.get('/api/valves/warnings');
     expect(warnings.body.items.some((x: { fleetNumber: string }) => x.fleetNumber === 'V-TREND')).toBe(true);
+    // The scan works its warnings out from the inputs it has just read: the same as the screens'.
+    const fromScan = await valveWarningsForScan(t.database.db, await loadDueInputs(t.database.db, clock.now()));
+    expect(fromScan.some((x) => x.fleetNumber === 'V-TREND')).toBe(true);
+    expect(fromScan).toEqual(await valveWarningsFor(t.database.db, [w.siteA.id, w.siteB.id]));
   });
 
   it('adjusts stock with a reason and builds a reorder list from sizes below their minimum', async () => {
