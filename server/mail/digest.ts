@@ -45,7 +45,8 @@ export function renderDigest(d: DigestData) {
           .join('')}</table>`
       : '<p>None.</p>';
   const list = (rows: string[]) => (rows.length ? `<ul>${rows.map((r) => `<li>${escapeHtml(r)}</li>`).join('')}</ul>` : '<p>None.</p>');
-  const html = `<!doctype html><html><body style="font-family:system-ui,sans-serif;color:#1d2733;background:#f6f2ea;padding:16px">
+  // A language and a title, so a reader that reads the message aloud knows how (WCAG 3.1.1, 2.4.2).
+  const html = `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>${escapeHtml(subject)}</title></head><body style="font-family:system-ui,sans-serif;color:#1d2733;background:#f6f2ea;padding:16px">
 <h1 style="font-size:20px">Lashline due list, ${escapeHtml(d.weekLabel)}</h1>
 <p>Good morning ${escapeHtml(d.managerName)}, your fleet on ${d.today}.</p>
 <h2 style="font-size:17px;color:#8c1c1c">Overdue (${d.overdue.length})</h2>${table(d.overdue)}
