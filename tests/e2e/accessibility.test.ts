@@ -146,6 +146,17 @@ describe.skipIf(!hasBrowser)('every main screen passes axe-core’s WCAG 2.2 A a
     });
   });
 
+  it('on a phone at the counter and a tablet on the bench', async () => {
+    const desk = await as('cal@saltmarsh.test');
+    await desk.setViewportSize({ width: 390, height: 844 });
+    await check(desk, 'check-in on a phone', (p) => heading(p, 'Check-in'));
+    await desk.close();
+    const bench = await as('tomasz@saltmarsh.test');
+    await bench.setViewportSize({ width: 820, height: 1180 });
+    await check(bench, 'my tasks on a tablet', (p) => heading(p, 'My tasks'));
+    await bench.close();
+  });
+
   describe('manager', () => {
     it('this week', async () => {
       const page = await as('imogen@saltmarsh.test');
