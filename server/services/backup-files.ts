@@ -2,7 +2,8 @@ import { createHash } from 'node:crypto';
 import { readFile, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { BlobStore } from '../storage/types';
-import { eachFile, type Manifest } from './backup-archive';
+import type { Manifest } from './backup-archive';
+import { eachFile } from './backup-archive-read';
 
 const sha256 = (bytes: Buffer) => createHash('sha256').update(bytes).digest('hex');
 

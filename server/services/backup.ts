@@ -8,7 +8,8 @@ import { HttpError } from '../http-error';
 import type { BlobStore } from '../storage/types';
 import type { RestoreReport } from '../../shared/schemas/imports';
 import { readCatalog, schemaVersion, shapeDifferences, viaDrizzle, type TableInfo } from './backup-catalog';
-import { DATABASE_MAX_BYTES, checkArchive, damaged, isArchive, writeArchive, type DumpFormat, type Manifest, type SchemaVersion } from './backup-archive';
+import { DATABASE_MAX_BYTES, writeArchive, type DumpFormat, type Manifest, type SchemaVersion } from './backup-archive';
+import { checkArchive, damaged, isArchive } from './backup-archive-read';
 import { NOT_RESTORED, keysInDump, namedKeys, notBackup, openBareDump, openDump, replaceAll, snapshot, type Source } from './backup-dump';
 import { countAbsent, putFiles, removeFiles, type FilesPut } from './backup-files';
 

@@ -218,6 +218,33 @@ describe('the backup archive', () => {
   });
 });
 
+describe('a backup that cannot be finished', () => {
+  it('is cut short when a stored file cannot be read, and the server goes on serving', async () => {
+    const [pdfRow] = await t.database.db.select().from(attachments).where(eq(attachments.mime, 'application/pdf'));
+    const failing: BlobStore = {
+      ...t.store,
+      get: async (key) => {
+        if (key === pdfRow.storageKey) throw new Error('The bucket did not answer.');
+        return t.store.get(key);
+      },
+    };
+    const app = build(t.database, failing);
+    const admin = await agent(app);
+    expect((await admin.login(w.people.admin.email, PASSWORD)).status).toBe(200);
+    // The answer had begun (200, gzip) when the file failed: the connection is closed before the end,
+    // so the client sees an aborted download rather than a complete-looking file.
+    const cut = await admin.get('/api/admin/backup').buffer(true).parse(binary).then(
+      (res) => ({ status: res.status, complete: true }),
+      (e: Error) => ({ status: 0, complete: false, message: e.message }),
+    );
+    expect(cut.complete).toBe(false);
+    expect((await admin.get('/api/auth/me')).status).toBe(200);
+    const whole = await download(as.admin);
+    expect(whole.status).toBe(200);
+    expect(manifestOf(await unpack(whole.body as Buffer)).files).toHaveLength(5);
+  });
+});
+
 describe('backup then restore', () => {
   it('puts back the rows and the files, and removes the files only replaced rows named', async () => {
     const before = { rows: await fingerprint(), files: await storedFiles(t.database, t.store) };
