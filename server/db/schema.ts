@@ -2,6 +2,7 @@ import { sql } from 'drizzle-orm';
 import {
   bigint,
   bigserial,
+  check,
   boolean,
   date,
   doublePrecision,
@@ -428,3 +429,165 @@ export const attachments = pgTable(
   },
   (t) => [index('attachments_bike').on(t.bikeId)],
 );
+
+// ── Workshop planning: capacity, bookings, visits ───────────────────────────
+
+/** A workshop bay (lift) at a site. A site's `bays` count and its bay rows are kept equal. */
+export const bays = pgTable(
+  'bays',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+    name: text('name').notNull(),
+    position: integer('position').notNull().default(0),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('bays_site_name').on(t.siteId, t.name)],
+);
+
+/** When a site's workshop is open, per ISO weekday (1 = Monday … 7 = Sunday), local time "HH:MM". No row: closed that day. */
+export const siteHours = pgTable(
+  'site_hours',
+  {
+    siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+    weekday: integer('weekday').notNull(),
+    opensAt: text('opens_at').notNull(),
+    closesAt: text('closes_at').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.siteId, t.weekday] })],
+);
+
+/**
+ * A technician's working pattern at a site: an RFC 5545 RRULE (without DTSTART) counted from `startsOn`,
+ * e.g. FREQ=WEEKLY;BYDAY=MO,TU,WE,TH,FR or FREQ=WEEKLY;INTERVAL=2;BYDAY=SA, with local times of day.
+ */
+export const workPatterns = pgTable(
+  'work_patterns',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    userId: uuid('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+    rrule: text('rrule').notNull(),
+    startsOn: date('starts_on', { mode: 'string' }).notNull(),
+    endsOn: date('ends_on', { mode: 'string' }),
+    startTime: text('start_time').notNull(),
+    endTime: text('end_time').notNull(),
+    label: text('label'),
+    createdAt: createdAt(),
+  },
+  (t) => [index('work_patterns_user').on(t.userId)],
+);
+
+/** Whole days a technician is away (first and last day included). */
+export const timeOff = pgTable(
+  'time_off',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    userId: uuid('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    firstDay: date('first_day', { mode: 'string' }).notNull(),
+    lastDay: date('last_day', { mode: 'string' }).notNull(),
+    reason: text('reason'),
+    createdBy: uuid('created_by').references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index('time_off_user').on(t.userId, t.firstDay)],
+);
+
+/** An iCalendar (RFC 5545) feed of the operator's hires or lessons, fetched by the booking-sync job. */
+export const bookingFeeds = pgTable('booking_feeds', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+  name: text('name').notNull(),
+  url: text('url').notNull(),
+  kind: text('kind', { enum: ['hire', 'lesson'] }).notNull().default('hire'),
+  /** The model an event stands for when it names no fleet number and no model. */
+  defaultModelId: uuid('default_model_id').references(() => bikeModels.id, { onDelete: 'set null' }),
+  lastAttemptAt: timestamp('last_attempt_at', { withTimezone: true }),
+  lastGoodAt: timestamp('last_good_at', { withTimezone: true }),
+  lastError: text('last_error'),
+  eventCount: integer('event_count').notNull().default(0),
+  createdBy: uuid('created_by').references(() => users.id),
+  createdAt: createdAt(),
+});
+
+/**
+ * When bikes are needed: a hire or a lesson block, for one bike or for `quantity` bikes of a model at a
+ * site. `rrule` (RFC 5545, without DTSTART: the start is `startAt`) repeats it; feed rows are the feed's
+ * occurrences, replaced whole on every good fetch.
+ */
+export const bookings = pgTable(
+  'bookings',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+    kind: text('kind', { enum: ['hire', 'lesson'] }).notNull(),
+    bikeId: uuid('bike_id').references(() => bikes.id, { onDelete: 'cascade' }),
+    modelId: uuid('model_id').references(() => bikeModels.id, { onDelete: 'cascade' }),
+    quantity: integer('quantity').notNull().default(1),
+    startAt: timestamp('start_at', { withTimezone: true }).notNull(),
+    endAt: timestamp('end_at', { withTimezone: true }).notNull(),
+    rrule: text('rrule'),
+    title: text('title').notNull().default(''),
+    source: text('source', { enum: ['manual', 'csv', 'feed'] }).notNull().default('manual'),
+    feedId: uuid('feed_id').references(() => bookingFeeds.id, { onDelete: 'cascade' }),
+    externalUid: text('external_uid'),
+    createdBy: uuid('created_by').references(() => users.id),
+    createdAt: createdAt(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    index('bookings_site_start').on(t.siteId, t.startAt),
+    index('bookings_bike').on(t.bikeId),
+    index('bookings_feed').on(t.feedId),
+    check('bookings_bike_or_model', sql`(${t.bikeId} is null) <> (${t.modelId} is null)`),
+    check('bookings_times', sql`${t.endAt} > ${t.startAt}`),
+    check('bookings_quantity', sql`${t.quantity} >= 1`),
+  ],
+);
+
+/**
+ * A bike's time in the workshop: its tasks, where (bay), with whom, and the latest day it may happen.
+ * The id is the calendar UID; `sequence` rises on every move (RFC 5545 §3.8.7.4). A pinned visit was
+ * placed by a person and the planner leaves it where it is.
+ */
+export const visits = pgTable(
+  'visits',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+    bikeId: uuid('bike_id').notNull().references(() => bikes.id, { onDelete: 'cascade' }),
+    bayId: uuid('bay_id').notNull().references(() => bays.id, { onDelete: 'cascade' }),
+    technicianId: uuid('technician_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    startAt: timestamp('start_at', { withTimezone: true }).notNull(),
+    endAt: timestamp('end_at', { withTimezone: true }).notNull(),
+    latestDate: date('latest_date', { mode: 'string' }).notNull(),
+    status: text('status', { enum: ['planned', 'done', 'cancelled'] }).notNull().default('planned'),
+    sequence: integer('sequence').notNull().default(0),
+    pinned: boolean('pinned').notNull().default(false),
+    /** Why it stands where it does, in words: its due dates, the bookings around it. */
+    why: jsonb('why').$type<string[]>().notNull().default([]),
+    createdAt: createdAt(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('visits_site_start').on(t.siteId, t.startAt), index('visits_bike').on(t.bikeId), index('visits_technician').on(t.technicianId, t.startAt)],
+);
+
+/** The tasks a visit does; a task is in one visit at most. */
+export const visitTasks = pgTable(
+  'visit_tasks',
+  {
+    taskId: uuid('task_id').primaryKey().references(() => serviceTasks.id, { onDelete: 'cascade' }),
+    visitId: uuid('visit_id').notNull().references(() => visits.id, { onDelete: 'cascade' }),
+  },
+  (t) => [index('visit_tasks_visit').on(t.visitId)],
+);
+
+/** Work the last plan could not place before its due date, with the reason and a way out, in words. */
+export const unplacedTasks = pgTable('unplaced_tasks', {
+  taskId: uuid('task_id').primaryKey().references(() => serviceTasks.id, { onDelete: 'cascade' }),
+  bikeId: uuid('bike_id').notNull().references(() => bikes.id, { onDelete: 'cascade' }),
+  siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+  reason: text('reason').notNull(),
+  remedy: text('remedy').notNull(),
+  computedAt: timestamp('computed_at', { withTimezone: true }).notNull().defaultNow(),
+});
