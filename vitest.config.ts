@@ -7,7 +7,7 @@ const pg = process.env.TEST_DATABASE_URL;
 export default defineConfig({
   test: {
     projects: [
-      { test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node' } },
+      { test: { name: 'unit', include: ['tests/unit/**/*.test.ts', 'tests/unit/**/*.test.tsx'], environment: 'node' } },
       {
         test: {
           name: 'api',
