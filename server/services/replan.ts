@@ -17,15 +17,53 @@ export function setReplanner(fn: Replanner) {
   replanner = fn;
 }
 
+interface Queue {
+  running: boolean;
+  pending?: { change: PlanChange; now: Date; done: (() => void)[] };
+}
+const queues = new WeakMap<Db, Queue>();
+
+/** Two changes as one: the sites of both; only some bikes when both name bikes. */
+export function mergeChanges(a: PlanChange, b: PlanChange): PlanChange {
+  return {
+    siteIds: [...new Set([...a.siteIds, ...b.siteIds])],
+    bikeIds: a.bikeIds && b.bikeIds && sameSites(a, b) ? [...new Set([...a.bikeIds, ...b.bikeIds])] : undefined,
+    why: a.why === b.why ? a.why : `${a.why}; ${b.why}`,
+  };
+}
+const sameSites = (a: PlanChange, b: PlanChange) => a.siteIds.length === b.siteIds.length && a.siteIds.every((s) => b.siteIds.includes(s));
+
 /**
  * Re-plans after a change has committed. Call it after the writing transaction, never inside it.
- * A failed re-plan never fails the write that caused it: the previous plan stays, and the error is logged.
+ * Changes that arrive while a re-plan runs are merged into the next one, so a burst of check-ins
+ * costs one or two re-plans, not one each. The promise settles when a re-plan that includes this
+ * change has finished. A failed re-plan never fails the write that caused it: the previous plan
+ * stays, and the error is logged.
  */
-export async function replanAfter(db: Db, change: PlanChange, now: Date): Promise<void> {
-  if (!replanner) return;
-  try {
-    await replanner(db, change, now);
-  } catch (err) {
-    console.error(`[plan] re-plan after ${change.why} failed; the previous plan stays:`, err);
+export function replanAfter(db: Db, change: PlanChange, now: Date): Promise<void> {
+  if (!replanner || !change.siteIds.length) return Promise.resolve();
+  let q = queues.get(db);
+  if (!q) queues.set(db, (q = { running: false }));
+  const queue = q;
+  return new Promise<void>((resolve) => {
+    queue.pending = queue.pending
+      ? { change: mergeChanges(queue.pending.change, change), now: now > queue.pending.now ? now : queue.pending.now, done: [...queue.pending.done, resolve] }
+      : { change, now, done: [resolve] };
+    if (!queue.running) void drain(db, queue);
+  });
+}
+
+async function drain(db: Db, queue: Queue) {
+  queue.running = true;
+  while (queue.pending) {
+    const { change, now, done } = queue.pending;
+    queue.pending = undefined;
+    try {
+      await replanner!(db, change, now);
+    } catch (err) {
+      console.error(`[plan] re-plan after ${change.why} failed; the previous plan stays:`, err);
+    }
+    for (const d of done) d();
   }
+  queue.running = false;
 }

@@ -148,3 +148,15 @@ export function todayInZone(timeZone: string, instant: Date = new Date()): IsoDa
   }
   return format(zoned, 'yyyy-MM-dd');
 }
+
+/** The instant (epoch ms) a calendar day begins on the wall clock of `timeZone` (midnight, or the first minute after a gap). */
+export function startOfDayInZone(date: IsoDate, timeZone: string): number {
+  const p = parts(date);
+  if (!p) throw new Error(`Not a calendar date: "${date}"`);
+  return new TZDate(p.year, p.month - 1, p.day, 0, 0, 0, timeZone).getTime();
+}
+
+/** An instant as the wall clock of `timeZone` shows it, in a date-fns pattern (e.g. 'EEE d MMM HH:mm'). */
+export function formatInZone(instant: number | Date, timeZone: string, pattern: string): string {
+  return format(new TZDate(typeof instant === 'number' ? instant : instant.getTime(), timeZone), pattern);
+}

@@ -1,5 +1,5 @@
 // The workshop planner's inputs and outputs. Pure data: the server loads them from the database
-// (server/services/plan-inputs.ts), the planner (shared/domain/planner.ts) places visits, and the
+// (server/services/workshop-plan-inputs.ts), the planner (shared/domain/planner.ts) places visits, and the
 // plan board and the move check use the same shapes.
 //
 // Instants are epoch milliseconds (UTC); intervals are half-open [start, end). Calendar days are

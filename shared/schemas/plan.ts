@@ -127,3 +127,14 @@ export const NextVisitSchema = z.object({
 });
 export type NextVisit = z.infer<typeof NextVisitSchema>;
 export const NextVisitsSchema = z.object({ items: z.array(NextVisitSchema) });
+
+/** What the manager sets for planning. */
+export const PlanSettingsSchema = z.object({
+  /** Items falling due within this many days of a bike's earliest come in the same visit … */
+  windowDays: z.number().int().min(0, 'Use 0 days or more.').max(60, 'Use at most 60 days.').default(14),
+  /** … or within this many km of riding, whichever comes first. */
+  windowKm: z.number().int().min(0, 'Use 0 km or more.').max(10_000, 'Use at most 10,000 km.').default(600),
+  /** How many days ahead the plan reaches, today included. */
+  horizonDays: z.number().int().min(1, 'Plan at least one day.').max(42, 'Plan at most six weeks ahead.').default(14),
+});
+export type PlanSettings = z.infer<typeof PlanSettingsSchema>;
