@@ -20,6 +20,7 @@ const ENTRIES: readonly NavEntry[] = [
   { to: '/admin/backup', label: 'Backup', roles: ['admin'] },
   { to: '/this-week', label: 'This week', roles: ['manager', 'admin'] },
   { to: '/tasks', label: 'Tasks', roles: ['technician', 'manager'], labelFor: { technician: 'My tasks' } },
+  { to: '/plan', label: 'Plan', roles: ['technician', 'manager', 'admin'] },
   { to: '/check-in', label: 'Check-in', roles: ['desk', 'technician', 'manager'] },
   { to: '/fleet', label: 'Fleet', roles: ['desk', 'technician', 'manager', 'admin'] },
   { to: '/valves', label: 'Valve trends', roles: ['manager'] },
