@@ -2,11 +2,14 @@ import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query
 import { z } from 'zod';
 import { api } from '../../lib/api-client';
 import { TaskListSchema, TaskSchema, type TaskListQuery } from '../../../shared/schemas/tasks';
+import { MyDaySchema } from '../../../shared/schemas/plan';
 
 export const taskQueries = {
   all: () => ['tasks'] as const,
   list: (f: Pick<TaskListQuery, 'mine' | 'status'>) =>
     queryOptions({ queryKey: [...taskQueries.all(), 'list', f], queryFn: () => api.get('/api/tasks', TaskListSchema, f) }),
+  // Under the plan's key: a move or a re-plan on the board refreshes the technician's day.
+  myDay: () => queryOptions({ queryKey: ['plan', 'my-day'], queryFn: () => api.get('/api/plan/my-day', MyDaySchema) }),
 };
 
 const TaskResult = z.object({ task: TaskSchema });

@@ -28,7 +28,7 @@ export function TaskCard({ task, today, canWork, showAssignee, onReload }: Props
   const late = task.dueDate != null && task.dueDate < today;
   const open = task.status === 'open' || task.status === 'in_progress';
   return (
-    <article aria-label={`${task.fleetNumber}: ${task.item}`} className={`flex flex-col gap-3 rounded-card border-2 bg-paper-raised p-5 ${late ? 'border-state-stop' : 'border-ink-line'}`}>
+    <article id={`task-${task.id}`} aria-label={`${task.fleetNumber}: ${task.item}`} className={`flex flex-col gap-3 rounded-card border-2 bg-paper-raised p-5 ${late ? 'border-state-stop' : 'border-ink-line'}`}>
       <header className="flex flex-wrap items-baseline justify-between gap-2">
         <Link to={`/fleet/${task.bikeId}`} className="text-display font-bold text-accent underline-offset-4 hover:underline">{task.fleetNumber}</Link>
         <span className={`inline-flex items-center gap-1.5 rounded-full border-2 px-3 py-0.5 font-semibold ${task.status === 'in_progress' ? 'border-accent bg-accent-soft' : 'border-ink-line'}`}>

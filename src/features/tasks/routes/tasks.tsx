@@ -6,6 +6,7 @@ import { useMe } from '../../../lib/use-me';
 import { taskQueries } from '../api';
 import { groupTasks } from '../components/group-tasks';
 import { TaskCard } from '../components/task-card';
+import { TodaysVisits } from '../components/todays-visits';
 import { WhoseToggle } from '../components/whose-toggle';
 
 /** The technician's bench list; a manager sees every open task at their sites. */
@@ -22,6 +23,7 @@ export function TasksRoute() {
       <PageHeader title={mine ? 'My tasks' : 'Tasks'}>
         {isTech && <WhoseToggle mine={mine} onChange={(m) => setParams(m ? {} : { whose: 'all' }, { replace: true })} />}
       </PageHeader>
+      {mine && q.data && <TodaysVisits tasks={q.data.items} />}
       {q.isPending ? (
         <Loading what="tasks" />
       ) : q.error ? (
