@@ -17,18 +17,26 @@ const BLANK = { odometer: '', date: '', reset: false, defectOpen: false, categor
 // A conflict's full message says what to do (it names the last reading); a validation detail is short.
 const fieldError = (err: ApiError | null, path: string) => (err?.field(path) && err.status === 409 ? err.message : err?.field(path));
 
-export function CheckInForm({ bike, onDone }: { bike: BikeSummary; onDone: (r: CheckInResult, defect: boolean) => void }) {
+/** A bike planned into the workshop today: the desk answers before the check-in is saved. */
+export interface HandOutCheck {
+  question: string;
+  onAnswer: (goesOut: boolean) => void;
+}
+
+export function CheckInForm({ bike, onDone, handOut }: { bike: BikeSummary; onDone: (r: CheckInResult, defect: boolean) => void; handOut?: HandOutCheck }) {
   const me = useMe();
   const today = todayIso();
   const [draft, setDraft, clearDraft] = useDraft(`check-in.${bike.id}`, BLANK);
   const [errors, setErrors] = useState<Record<string, string>>({});
+  const [asking, setAsking] = useState(false);
+  const [answered, setAnswered] = useState(false);
   const checkIn = useCheckIn(bike.id);
   const set = (patch: Partial<typeof BLANK>) => {
     setDraft({ ...draft, ...patch });
     if (checkIn.error) checkIn.reset();
   };
 
-  const submit = (confirmLargeJump = false) => {
+  const submit = (confirmLargeJump = false, handOutAnswered = answered) => {
     const wantsDefect = draft.defectOpen && (draft.category !== '' || draft.text.trim() !== '' || draft.safetyCritical);
     const body = {
       odometer: parseReading(draft.odometer),
@@ -40,12 +48,19 @@ export function CheckInForm({ bike, onDone }: { bike: BikeSummary; onDone: (r: C
     const parsed = CheckInSchema.safeParse(body);
     if (!parsed.success) return setErrors(Object.fromEntries(parsed.error.issues.map((i) => [i.path.join('.'), i.message])));
     setErrors({});
+    if (handOut && !handOutAnswered) return setAsking(true);
     checkIn.mutate(parsed.data satisfies CheckIn, {
       onSuccess: (r) => {
         clearDraft();
         onDone(r, !!parsed.data.defect);
       },
     });
+  };
+  const answer = (goesOut: boolean) => {
+    handOut?.onAnswer(goesOut);
+    setAnswered(true);
+    setAsking(false);
+    submit(false, true);
   };
   const onSubmit = (e: FormEvent) => {
     e.preventDefault();
@@ -101,8 +116,18 @@ export function CheckInForm({ bike, onDone }: { bike: BikeSummary; onDone: (r: C
           Report a defect
         </Button>
       )}
+      {asking && handOut && (
+        <div role="alert" data-testid="hand-out-check" className="rounded-card border-4 border-state-soon bg-state-soon-soft p-4">
+          <p className="text-lg font-semibold"><span aria-hidden>◔ </span>{handOut.question}</p>
+          <div className="mt-3 flex flex-wrap gap-3">
+            <Button className="min-h-14 text-lg" onClick={() => answer(true)} disabled={checkIn.isPending}>Yes, hand it out</Button>
+            <Button kind="secondary" className="min-h-14 text-lg" onClick={() => answer(false)} disabled={checkIn.isPending}>No, keep it for the workshop</Button>
+          </div>
+          <p className="mt-2 text-sm">Either way the reading is saved.</p>
+        </div>
+      )}
       {general && <p role="alert" className="rounded-card border-2 border-state-stop bg-state-stop-soft p-3 text-lg text-state-stop">⚠ {general}</p>}
-      <Button type="submit" className="min-h-16 text-xl sm:self-start sm:px-10" disabled={checkIn.isPending || needsConfirm}>
+      <Button type="submit" className="min-h-16 text-xl sm:self-start sm:px-10" disabled={checkIn.isPending || needsConfirm || asking}>
         {checkIn.isPending ? 'Saving…' : 'Save check-in'}
       </Button>
       <p className="text-sm text-ink-muted">What you type is kept on this device until it is saved.</p>
