@@ -2,7 +2,7 @@
 import type { PlanBike, PlanBikeBooking, PlanSite, PlanTask } from './plan-types';
 import { lateDays, type PlanState, type Spot, type VisitGroup } from './planner-state';
 import { DAY, overlapMs, union } from './planner-timeline';
-import { bookingWords, dateWords, dayTimeWords, dayWords, hoursWords, isoDayOf, kindWords, listWords, spanWords } from './planner-words';
+import { bookingWords, dateWords, dayTimeWords, dayWords, hoursWords, kindWords, listWords, spanWords } from './planner-words';
 
 function itemsLine(g: VisitGroup, bike: PlanBike): string {
   const dates = [...new Set(g.tasks.map((t) => t.dueDate))].sort();
@@ -104,8 +104,8 @@ function daysLate(task: PlanTask, spot: Spot): string {
 }
 
 /**
- * A day before the due date on which the bike is free long enough, latest first, and the site's
- * technician with the least planned work that day.
+ * A day (24 hours counted back from the due date's end) on which the bike is free long enough,
+ * latest first, and the site's technician with the least planned work then.
  */
 function overtimeDay(state: PlanState, g: VisitGroup, bike: PlanBike, site: PlanSite, deadline: number): { name: string; day: string } | undefined {
   const techs = (state.techsBySite.get(site.id) ?? []).filter((t) => t.shifts.length);
@@ -116,11 +116,10 @@ function overtimeDay(state: PlanState, g: VisitGroup, bike: PlanBike, site: Plan
     if (end - start < need) continue;
     const booked = overlapMs(start, end, union(bike.bookings));
     if (end - start - booked < need) continue;
-    const day = isoDayOf(start, site.timeZone);
     let best = techs[0];
     let bestMinutes = Infinity;
     for (const t of techs) {
-      const busy = state.techLane.get(t.id)!.all().filter((b) => isoDayOf(b.start, site.timeZone) === day);
+      const busy = state.techLane.get(t.id)!.all().filter((b) => b.start >= start && b.start < end);
       const minutes = busy.reduce((n, b) => n + (b.end - b.start), 0);
       if (minutes < bestMinutes) {
         best = t;

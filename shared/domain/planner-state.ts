@@ -141,9 +141,13 @@ export class PlanState {
     return spot;
   }
 
+  private readonly coverByBike = new Map<string, Cover | undefined>();
   private coverOf(g: VisitGroup): Cover | undefined {
-    const bike = this.bikes.get(g.bikeId)!;
-    return bike.available ? this.cover.get(coverKey(bike.siteId, bike.modelId)) : undefined;
+    if (!this.coverByBike.has(g.bikeId)) {
+      const bike = this.bikes.get(g.bikeId)!;
+      this.coverByBike.set(g.bikeId, bike.available ? this.cover.get(coverKey(bike.siteId, bike.modelId)) : undefined);
+    }
+    return this.coverByBike.get(g.bikeId);
   }
 
   /** The earliest spot inside one shift of `tech`, starting at or after `from`. */
@@ -211,11 +215,14 @@ export class PlanState {
   candidates(g: VisitGroup): Spot[] {
     const siteId = this.siteOf(g);
     const out: Spot[] = [];
+    // After the last item's due day every spot is late, and later only worse: the first one is enough.
+    const due = Math.max(...g.tasks.map((t) => t.deadline));
     for (const tech of siteId ? (this.techsBySite.get(siteId) ?? []) : []) {
       for (const shift of tech.shifts) {
         const spot = this.searchShift(g, tech, shift, shift.start);
         if (!spot) continue;
         out.push(spot);
+        if (spot.end > due) break;
         if (this.bookedLoss(g, spot.start, spot.end) > 0) {
           const bike = this.bikes.get(g.bikeId)!;
           const times = this.demandTimes.get(coverKey(bike.siteId, bike.modelId)) ?? [];

@@ -2,7 +2,7 @@
 // idle and before it falls due. Pure and deterministic: the same input gives the same plan.
 import type { PlanInput, PlanObjective, PlanResult, PlanTask, PlannedVisit, UnplacedTask } from './plan-types';
 import { daysBetween } from './dates';
-import { PlanState, lateDays, unplacedDays, type Spot, type VisitGroup } from './planner-state';
+import { PlanState, coverKey, lateDays, unplacedDays, type Spot, type VisitGroup } from './planner-state';
 import { compareObjective, planObjective } from './planner-objective';
 import { explainLeftOut, explainVisit } from './planner-explain';
 
@@ -143,6 +143,7 @@ const isLate = (run: Run, g: VisitGroup) => {
 /** Moves each visit to its best spot while that helps, and lets late work take the place of work that can wait. */
 function improve(run: Run, rounds = 3): void {
   const { state } = run;
+  const budget = { trades: TRADE_BUDGET };
   for (let round = 0; round < rounds; round++) {
     let changed = false;
     const seq = [...run.groups].sort((a, b) => Number(isLate(run, b)) - Number(isLate(run, a)) || dueOrder(a, b));
@@ -155,25 +156,40 @@ function improve(run: Run, rounds = 3): void {
         changed = true;
       } else if (old) state.place(g, old);
     }
-    for (const g of seq) if (isLate(run, g) && trade(run, g)) changed = true;
+    for (const g of seq) {
+      const spot = state.placed.get(g.key);
+      if ((isLate(run, g) || (round === 0 && spot && state.bookedLoss(g, spot.start, spot.end) > 0)) && trade(run, g, budget)) changed = true;
+    }
     if (!changed) break;
   }
 }
 
-const MAX_TRADES = 10;
+const MAX_TRADES = 8;
+/** Trades tried per improvement (a count, not a clock, so the plan stays deterministic). */
+const TRADE_BUDGET = 600;
 
-/** Late visit `g` takes the spot of a visit due later (which then goes where it best can), when the plan gains. */
-function trade(run: Run, g: VisitGroup): boolean {
+/** A late visit, or one that keeps a booked bike away, takes the spot of another (which then goes where it best can), when the plan gains. */
+function trade(run: Run, g: VisitGroup, budget: { trades: number }): boolean {
   const { state } = run;
+  if (budget.trades <= 0) return false;
   const siteId = state.siteOf(g);
   if (!siteId) return false;
+  const bike = state.bikes.get(g.bikeId)!;
+  const demandTimes = state.demandTimes.get(coverKey(bike.siteId, bike.modelId)) ?? [];
+  // Visits of bikes of the same model that take the cover its bookings need first, then those with the most time to spare.
+  const takesCover = (b: VisitGroup, spot: Spot) => {
+    const other = state.bikes.get(b.bikeId)!;
+    return other.available && other.modelId === bike.modelId && demandTimes.some((i) => i.start < Math.min(spot.end, g.deadline) && i.end > spot.start);
+  };
   const others = run.groups
-    .filter((b) => b !== g && firstDeadline(b) > firstDeadline(g) && state.siteOf(b) === siteId)
+    .filter((b) => b !== g && state.siteOf(b) === siteId)
     .map((b) => ({ b, spot: state.placed.get(b.key) }))
     .filter((x): x is { b: VisitGroup; spot: Spot } => !!x.spot && x.spot.start < g.deadline)
-    .sort((x, y) => firstDeadline(y.b) - y.spot.end - (firstDeadline(x.b) - x.spot.end) || cmp(x.b.key, y.b.key))
+    .map((x) => ({ ...x, cover: takesCover(x.b, x.spot) }))
+    .sort((x, y) => Number(y.cover) - Number(x.cover) || firstDeadline(y.b) - y.spot.end - (firstDeadline(x.b) - x.spot.end) || cmp(x.b.key, y.b.key))
     .slice(0, MAX_TRADES);
   for (const { b } of others) {
+    if (budget.trades-- <= 0) return false;
     const before = sum(local(state, g, state.placed.get(g.key)), local(state, b, state.placed.get(b.key)), state.spread(siteId));
     const oldG = state.unplace(g);
     const oldB = state.unplace(b)!;
@@ -207,14 +223,42 @@ export function prepareGroups(input: PlanInput): VisitGroup[] {
 export function planWorkshop(input: PlanInput): PlanResult {
   const groups = prepareGroups(input);
   const floor = greedy(input, groups, (s, g) => s.earliest(g));
-  const smart = greedy(input, groups, bestSpot);
-  improve(smart);
-  let chosen = smart;
-  if (compareObjective(objectiveOf(floor), objectiveOf(smart)) < 0) {
+  let best = greedy(input, groups, bestSpot);
+  improve(best);
+  if (compareObjective(objectiveOf(floor), objectiveOf(best)) < 0) {
     improve(floor);
-    if (compareObjective(objectiveOf(floor), objectiveOf(smart)) < 0) chosen = floor;
+    if (compareObjective(objectiveOf(floor), objectiveOf(best)) < 0) best = floor;
   }
-  return result(chosen);
+  return result(promoteLate(input, best));
+}
+
+/** Whole re-runs the work allows: many for a small plan, few for a large one (a count, so the plan stays deterministic). */
+const reruns = (groups: number) => Math.min(30, Math.floor(600 / Math.max(1, groups)));
+
+/**
+ * Late work often needs a long free stretch that the earlier choices cut up. Each re-run puts one
+ * late visit first and plans everything again around it, keeping the plan when it is better.
+ */
+function promoteLate(input: PlanInput, start: Run): Run {
+  let best = start;
+  let bestObjective = objectiveOf(best);
+  let order = best.groups;
+  const tried = new Set<string>();
+  for (let i = 0; i < reruns(order.length); i++) {
+    const late = order.find((g) => !tried.has(g.key) && isLate(best, g));
+    if (!late) break;
+    tried.add(late.key);
+    const next = [late, ...order.filter((g) => g !== late)];
+    const run = greedy(input, next, bestSpot);
+    improve(run, 1);
+    const o = objectiveOf(run);
+    if (compareObjective(o, bestObjective) < 0) {
+      best = run;
+      bestObjective = o;
+      order = next;
+    }
+  }
+  return best;
 }
 
 /** The earliest-due-date greedy alone (each visit at its earliest spot): the floor the planner improves on. */
