@@ -27,6 +27,7 @@ const ConfigSchema = z.object({
   DUE_SCAN_CRON: z.string().default('30 5 * * *'),
   DIGEST_CRON: z.string().default('0 7 * * 1'),
   MAIL_RETRY_CRON: z.string().default('* * * * *'),
+  BOOKING_SYNC_CRON: z.string().default('*/15 * * * *'),
   LOG_LEVEL: z.enum(['silent', 'error', 'info']).default('info'),
 });
 

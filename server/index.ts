@@ -76,6 +76,7 @@ async function main() {
             { job: 'due-scan', cron: config.DUE_SCAN_CRON, timeZone: config.SCHEDULE_TZ, catchUp: true },
             { job: 'weekly-digest', cron: config.DIGEST_CRON, timeZone: config.SCHEDULE_TZ, catchUp: true },
             { job: 'deliver-mail', cron: config.MAIL_RETRY_CRON, timeZone: config.SCHEDULE_TZ, catchUp: false },
+            { job: 'booking-sync', cron: config.BOOKING_SYNC_CRON, timeZone: config.SCHEDULE_TZ, catchUp: true },
           ],
           slotClaimer(database),
         )

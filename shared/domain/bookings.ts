@@ -79,6 +79,8 @@ const PARTS: Record<string, (v: string) => boolean> = {
   BYSETPOS: num(1, 366, true),
   BYYEARDAY: num(1, 366, true),
   BYWEEKNO: num(1, 53, true),
+  BYHOUR: num(0, 23),
+  BYMINUTE: num(0, 59),
   WKST: (v) => /^(MO|TU|WE|TH|FR|SA|SU)$/.test(v),
 };
 

@@ -29,6 +29,7 @@ export const JOBS = [
   { name: 'due-scan', label: 'Scan for due work', what: 'Recomputes every bike’s dues, raises tasks and grounds bikes with overdue safety work.' },
   { name: 'weekly-digest', label: 'Send the weekly due list', what: 'Queues the Monday e-mail to each manager and sends it.' },
   { name: 'deliver-mail', label: 'Send waiting mail', what: 'Tries every message in the outbox that is due for a new attempt.' },
+  { name: 'booking-sync', label: 'Load booking calendars', what: 'Loads every calendar feed of hires and lessons; a feed that fails keeps its last good copy.' },
 ] as const;
 export type JobName = (typeof JOBS)[number]['name'];
 
