@@ -29,6 +29,7 @@ import { importRoutes } from './routes/imports';
 import { recordRoutes } from './routes/records';
 import { backupRoutes } from './routes/backup';
 import { attachmentRoutes } from './routes/attachments';
+import { capacityRoutes } from './routes/capacity';
 import { bookingRoutes } from './routes/bookings';
 import type { BlobStore } from './storage/types';
 import { createMemoryBlobStore } from './storage/memory';
@@ -160,6 +161,7 @@ export function createApp(deps: AppDeps): Express {
   const blobStore = deps.blobStore ?? createMemoryBlobStore();
   api.use('/', backupRoutes(ctx, blobStore));
   api.use('/', attachmentRoutes(ctx, blobStore, { maxBytes: deps.uploadMaxBytes }));
+  api.use('/', capacityRoutes(ctx));
   api.use('/', bookingRoutes(ctx));
   api.use(apiNotFound);
 

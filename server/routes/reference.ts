@@ -9,6 +9,8 @@ import { IdParamsSchema } from '../../shared/schemas/common';
 import { audit } from '../audit';
 import { conflict, notFound } from '../http-error';
 import { toModelSummary } from '../services/models';
+import { addBays, bayCount, trimBays } from '../services/capacity';
+import { replanAfter } from '../services/replan';
 
 export function referenceRoutes(ctx: AppContext) {
   const r = Router();
@@ -25,7 +27,9 @@ export function referenceRoutes(ctx: AppContext) {
     const site = await db.transaction(async (tx) => {
       const [dupe] = await tx.select({ id: sites.id }).from(sites).where(eq(sites.name, body.name));
       if (dupe) throw conflict('A site already has that name.', [{ path: 'name', message: 'Already in use.' }]);
-      const [row] = await tx.insert(sites).values(body).returning();
+      const [row] = await tx.insert(sites).values({ ...body, bays: 0 }).returning();
+      await addBays(tx, row.id, body.bays);
+      row.bays = body.bays;
       await audit(tx, { userId: currentUser(req).id, action: 'create', entity: 'site', entityId: row.id, changes: body });
       return row;
     });
@@ -35,9 +39,25 @@ export function referenceRoutes(ctx: AppContext) {
   r.patch('/sites/:id', requireRole('admin'), validate({ params: IdParamsSchema, body: SiteCreateSchema.partial() }), async (req, res) => {
     const { id } = req.valid.params as { id: string };
     const body = req.valid.body as Partial<{ name: string; timeZone: string; bays: number }>;
-    const [row] = await db.update(sites).set(body).where(eq(sites.id, id)).returning();
-    if (!row) throw notFound('That site');
-    await audit(db, { userId: currentUser(req).id, action: 'update', entity: 'site', entityId: id, changes: body });
+    const user = currentUser(req);
+    const row = await db.transaction(async (tx) => {
+      const [exists] = await tx.select().from(sites).where(eq(sites.id, id)).for('update');
+      if (!exists) throw notFound('That site');
+      if (body.name !== undefined && body.name !== exists.name) {
+        const [dupe] = await tx.select({ id: sites.id }).from(sites).where(eq(sites.name, body.name));
+        if (dupe) throw conflict('A site already has that name.', [{ path: 'name', message: 'Already in use.' }]);
+      }
+      const { bays: count, ...rest } = body;
+      if (Object.keys(rest).length) await tx.update(sites).set(rest).where(eq(sites.id, id));
+      // The bay count follows the bay rows: new bays at the end, or the last ones removed (refused while planned).
+      const have = count === undefined ? 0 : await bayCount(tx, id);
+      if (count !== undefined && count > have) await addBays(tx, id, count - have);
+      if (count !== undefined && count <= have) await trimBays(tx, id, body.timeZone ?? exists.timeZone, count, ctx.now());
+      await audit(tx, { userId: user.id, action: 'update', entity: 'site', entityId: id, changes: body });
+      const [after] = await tx.select().from(sites).where(eq(sites.id, id));
+      return after;
+    });
+    if (body.bays !== undefined || body.timeZone !== undefined) await replanAfter(db, { siteIds: [id], why: 'site changed' }, ctx.now());
     res.json({ site: { id: row.id, name: row.name, timeZone: row.timeZone, bays: row.bays } });
   });
 

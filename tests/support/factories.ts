@@ -1,5 +1,5 @@
 import type { Db } from '../../server/db/client';
-import { bikeModels, bikes, serviceItems, sites, userSites, users } from '../../server/db/schema';
+import { bays, bikeModels, bikes, serviceItems, sites, userSites, users } from '../../server/db/schema';
 import { hashPassword } from '../../server/auth/passwords';
 import type { Role } from '../../shared/roles';
 
@@ -8,8 +8,10 @@ let hashed: Promise<string> | undefined;
 const passwordHash = () => (hashed ??= hashPassword(PASSWORD));
 let seq = 0;
 
-export async function makeSite(db: Db, name = `Site ${++seq}`) {
-  const [row] = await db.insert(sites).values({ name, timeZone: 'Europe/London' }).returning();
+/** A site with its bay rows ("Bay 1" …), as many as its `bays` count. */
+export async function makeSite(db: Db, name = `Site ${++seq}`, bayCount = 1) {
+  const [row] = await db.insert(sites).values({ name, timeZone: 'Europe/London', bays: bayCount }).returning();
+  for (let i = 1; i <= bayCount; i++) await db.insert(bays).values({ siteId: row.id, name: `Bay ${i}`, position: i });
   return row;
 }
 
