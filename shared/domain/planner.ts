@@ -229,33 +229,64 @@ export function planWorkshop(input: PlanInput): PlanResult {
     improve(floor);
     if (compareObjective(objectiveOf(floor), objectiveOf(best)) < 0) best = floor;
   }
-  return result(promoteLate(input, best));
+  return result(reorder(input, best));
 }
 
 /** Whole re-runs the work allows: many for a small plan, few for a large one (a count, so the plan stays deterministic). */
-const reruns = (groups: number) => Math.min(30, Math.floor(600 / Math.max(1, groups)));
+const reruns = (groups: number) => Math.min(80, Math.floor(30_000 / Math.max(1, groups) ** 2));
+
+/** A small seeded generator (mulberry32): the same input always sees the same sequence. */
+function sequence(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = Math.imul(a ^ (a >>> 15), a | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
 
 /**
- * Late work often needs a long free stretch that the earlier choices cut up. Each re-run puts one
- * late visit first and plans everything again around it, keeping the plan when it is better.
+ * Late work and work that keeps a booked bike away often need a stretch that earlier choices cut
+ * up. Each re-run plans everything again in another order: first with one such visit put first,
+ * then with a visit moved a few places earlier. A re-run is kept when its plan is no worse, so the
+ * search can cross level ground; the best plan seen is returned.
  */
-function promoteLate(input: PlanInput, start: Run): Run {
+function reorder(input: PlanInput, start: Run): Run {
   let best = start;
   let bestObjective = objectiveOf(best);
-  let order = best.groups;
+  let current = best.groups;
+  let currentObjective = bestObjective;
+  const next01 = sequence(current.length * 7919 + input.tasks.length);
   const tried = new Set<string>();
-  for (let i = 0; i < reruns(order.length); i++) {
-    const late = order.find((g) => !tried.has(g.key) && isLate(best, g));
-    if (!late) break;
-    tried.add(late.key);
-    const next = [late, ...order.filter((g) => g !== late)];
-    const run = greedy(input, next, bestSpot);
+  const wanting = (run: Run, g: VisitGroup) => {
+    const spot = run.state.placed.get(g.key);
+    return isLate(run, g) || (spot !== undefined && run.state.bookedLoss(g, spot.start, spot.end) > 0);
+  };
+  for (let i = 0; i < reruns(current.length); i++) {
+    const first = current.find((g) => !tried.has(g.key) && wanting(best, g));
+    let order: VisitGroup[];
+    if (first) {
+      tried.add(first.key);
+      order = [first, ...current.filter((g) => g !== first)];
+    } else {
+      if (current.length < 2) break;
+      const from = 1 + Math.floor(next01() * (current.length - 1));
+      const to = Math.max(0, from - 1 - Math.floor(next01() * 4));
+      order = [...current];
+      const [moved] = order.splice(from, 1);
+      order.splice(to, 0, moved);
+    }
+    const run = greedy(input, order, bestSpot);
     improve(run, 1);
     const o = objectiveOf(run);
-    if (compareObjective(o, bestObjective) < 0) {
-      best = run;
-      bestObjective = o;
-      order = next;
+    if (compareObjective(o, currentObjective) <= 0) {
+      current = order;
+      currentObjective = o;
+      if (compareObjective(o, bestObjective) < 0) {
+        best = run;
+        bestObjective = o;
+      }
     }
   }
   return best;
