@@ -10,6 +10,7 @@ import {
 } from '../db/schema';
 import { hashPassword } from '../auth/passwords';
 import { buildScenario } from './scenario';
+import { seedCapacity } from './capacity-demo';
 
 type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 
@@ -48,6 +49,7 @@ export async function seedDemo(db: Db, opts: { password: string; today?: string 
     await insertAll(tx, valveReadings, s.valveReadings);
     await insertAll(tx, defects, s.defects);
     await insertAll(tx, shimStock, s.shimStock);
+    await seedCapacity(tx, s);
   });
   const n = (x: number, one: string, many = `${one}s`) => `${x.toLocaleString('en-GB')} ${x === 1 ? one : many}`;
   return [

@@ -1,8 +1,11 @@
 import { describe, it, expect } from 'vitest';
-import { addMonths, differenceInCalendarDays, format, parseISO } from 'date-fns';
+import { addMonths, differenceInCalendarDays, format, isSaturday, nextMonday, parseISO } from 'date-fns';
+import { TZDate } from '@date-fns/tz';
 import { linearRegression } from 'simple-statistics';
 import rrulePkg from 'rrule';
 import { buildScenario, PRE_SEASON_RULE, type Scenario } from '../../server/demo/scenario';
+import { buildCapacity } from '../../server/demo/capacity-demo';
+import { siteOpenIntervals, technicianShifts } from '../../shared/domain/shifts';
 
 const { rrulestr } = rrulePkg;
 const TODAY = '2026-06-15';
@@ -241,5 +244,53 @@ describe('demo scenario: valves and shims', () => {
         }
       }
     }
+  });
+});
+
+describe('demo workshop capacity', () => {
+  const LONDON = 'Europe/London';
+  const HOUR = 3_600_000;
+  it.each(TODAYS)('bays, hours, patterns and a day off as the scenario tells them (today %s)', (today) => {
+    const s = buildScenario(today);
+    const c = buildCapacity(s);
+    const site = (name: string) => s.sites.find((x) => x.name === name)!;
+    for (const x of s.sites) expect(c.bays.filter((b) => b.siteId === x.id).length).toBe(x.bays);
+    expect(c.bays.filter((b) => b.siteId === site('Quay Street').id).length).toBe(2);
+    expect(c.bays.filter((b) => b.siteId === site('Airfield').id).length).toBe(1);
+
+    // Two weeks from the Monday after today, checked day by day with date-fns.
+    const monday = format(nextMonday(parseISO(today)), 'yyyy-MM-dd');
+    const from = new TZDate(`${monday}T00:00:00`, LONDON).getTime();
+    const to = from + 14 * 24 * HOUR + HOUR;
+    const shifts = (siteName: string, person: string) => {
+      const x = site(siteName);
+      const open = siteOpenIntervals(c.siteHours.filter((h) => h.siteId === x.id), LONDON, from, to);
+      const id = userByName(s, person).id;
+      const ps = c.workPatterns.filter((p) => p.userId === id).map((p) => ({ rrule: p.rrule, startsOn: p.startsOn, endsOn: p.endsOn ?? null, startTime: p.startTime, endTime: p.endTime }));
+      return technicianShifts(ps, c.timeOff.filter((o) => o.userId === id), open, LONDON, from, to);
+    };
+    const tomasz = shifts('Quay Street', 'Tomasz Reed');
+    const weekdays = tomasz.filter((i) => !isSaturday(new TZDate(i.start, LONDON)));
+    const saturdays = tomasz.filter((i) => isSaturday(new TZDate(i.start, LONDON)));
+    expect(weekdays.length).toBe(10);
+    expect(weekdays.every((i) => i.end - i.start === 8.5 * HOUR)).toBe(true);
+    // Every other Saturday: one of the two in any fortnight, 08:00–12:30.
+    expect(saturdays.length).toBe(1);
+    expect(saturdays[0].end - saturdays[0].start).toBe(4.5 * HOUR);
+
+    // Priya: Tuesday to Saturday over the coming week less one day off on a day she works.
+    const [off] = c.timeOff;
+    expect(off.firstDay).toBe(off.lastDay);
+    expect(differenceInCalendarDays(parseISO(off.firstDay), parseISO(today))).toBeGreaterThanOrEqual(1);
+    expect(differenceInCalendarDays(parseISO(off.firstDay), parseISO(today))).toBeLessThanOrEqual(7);
+    const rule = c.workPatterns.find((p) => p.userId === userByName(s, 'Priya Vale').id)!;
+    const works = rrulestr(`RRULE:${rule.rrule}`, { dtstart: new Date(`${rule.startsOn}T00:00:00Z`) });
+    expect(works.between(new Date(`${off.firstDay}T00:00:00Z`), new Date(`${off.firstDay}T00:00:01Z`), true)).toHaveLength(1);
+    const weekFrom = new TZDate(`${today}T00:00:00`, LONDON).getTime() + 24 * HOUR;
+    const priyaWeek = technicianShifts(
+      [{ rrule: rule.rrule, startsOn: rule.startsOn, endsOn: null, startTime: rule.startTime, endTime: rule.endTime }], c.timeOff, [{ start: weekFrom, end: weekFrom + 7 * 24 * HOUR }], LONDON, weekFrom, weekFrom + 7 * 24 * HOUR,
+    );
+    expect(priyaWeek.length).toBe(4);
+    expect(priyaWeek.map((i) => format(new TZDate(i.start, LONDON), 'yyyy-MM-dd'))).not.toContain(off.firstDay);
   });
 });
