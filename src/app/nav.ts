@@ -22,6 +22,7 @@ const ENTRIES: readonly NavEntry[] = [
   { to: '/tasks', label: 'Tasks', roles: ['technician', 'manager'], labelFor: { technician: 'My tasks' } },
   { to: '/plan', label: 'Plan', roles: ['technician', 'manager', 'admin'] },
   { to: '/check-in', label: 'Check-in', roles: ['desk', 'technician', 'manager'] },
+  { to: '/bookings', label: 'Bookings', roles: ['desk', 'manager', 'admin'] },
   { to: '/fleet', label: 'Fleet', roles: ['desk', 'technician', 'manager', 'admin'] },
   { to: '/valves', label: 'Valve trends', roles: ['manager'] },
   { to: '/stock', label: 'Shim stock', roles: ['technician', 'manager'] },

@@ -35,6 +35,7 @@ const router = createBrowserRouter([
       { path: '/check-in', lazy: () => import('./routes/check-in').then((m) => ({ Component: m.CheckInWithPhotos })) },
       { path: '/this-week', lazy: () => import('./routes/this-week').then((m) => ({ Component: m.ThisWeekBoard })) },
       { path: '/tasks', lazy: () => import('../features/tasks/routes/tasks').then((m) => ({ Component: m.TasksRoute })) },
+      { path: '/bookings', lazy: () => import('../features/bookings/routes/bookings').then((m) => ({ Component: m.BookingsRoute })) },
       { path: '/plan', lazy: () => import('../features/plan/routes/plan-board').then((m) => ({ Component: m.PlanBoardRoute })) },
       { path: '/admin/mail', lazy: () => import('../features/mail/routes/mail').then((m) => ({ Component: m.MailRoute })) },
       { path: '/admin/mail/:id', lazy: () => import('../features/mail/routes/mail').then((m) => ({ Component: m.MailRoute })) },

@@ -16,6 +16,6 @@ describe('navigation per role', () => {
   it('names the technician’s tasks as their own and the manager’s as everyone’s', () => {
     expect(navFor('technician').find((n) => n.to === '/tasks')?.label).toBe('My tasks');
     expect(navFor('manager').find((n) => n.to === '/tasks')?.label).toBe('Tasks');
-    expect(navFor('desk').map((n) => n.to)).toEqual(['/check-in', '/fleet']);
+    expect(navFor('desk').map((n) => n.to)).toEqual(['/check-in', '/bookings', '/fleet']);
   });
 });
