@@ -11,6 +11,7 @@ import {
 import { hashPassword } from '../auth/passwords';
 import { buildScenario } from './scenario';
 import { seedCapacity } from './capacity-demo';
+import { seedBookings } from './bookings-demo';
 
 type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 
@@ -50,6 +51,7 @@ export async function seedDemo(db: Db, opts: { password: string; today?: string 
     await insertAll(tx, defects, s.defects);
     await insertAll(tx, shimStock, s.shimStock);
     await seedCapacity(tx, s);
+    await seedBookings(tx, s);
   });
   const n = (x: number, one: string, many = `${one}s`) => `${x.toLocaleString('en-GB')} ${x === 1 ? one : many}`;
   return [
