@@ -21,6 +21,7 @@ const ENTRIES: readonly NavEntry[] = [
   { to: '/this-week', label: 'This week', roles: ['manager', 'admin'] },
   { to: '/tasks', label: 'Tasks', roles: ['technician', 'manager'], labelFor: { technician: 'My tasks' } },
   { to: '/plan', label: 'Plan', roles: ['technician', 'manager', 'admin'] },
+  { to: '/workshop', label: 'Workshop', roles: ['manager', 'admin'] },
   { to: '/check-in', label: 'Check-in', roles: ['desk', 'technician', 'manager'] },
   { to: '/bookings', label: 'Bookings', roles: ['desk', 'manager', 'admin'] },
   { to: '/fleet', label: 'Fleet', roles: ['desk', 'technician', 'manager', 'admin'] },

@@ -36,6 +36,7 @@ const router = createBrowserRouter([
       { path: '/this-week', lazy: () => import('./routes/this-week').then((m) => ({ Component: m.ThisWeekBoard })) },
       { path: '/tasks', lazy: () => import('../features/tasks/routes/tasks').then((m) => ({ Component: m.TasksRoute })) },
       { path: '/bookings', lazy: () => import('../features/bookings/routes/bookings').then((m) => ({ Component: m.BookingsRoute })) },
+      { path: '/workshop', lazy: () => import('../features/workshop/routes/workshop').then((m) => ({ Component: m.WorkshopRoute })) },
       { path: '/plan', lazy: () => import('../features/plan/routes/plan-board').then((m) => ({ Component: m.PlanBoardRoute })) },
       { path: '/admin/mail', lazy: () => import('../features/mail/routes/mail').then((m) => ({ Component: m.MailRoute })) },
       { path: '/admin/mail/:id', lazy: () => import('../features/mail/routes/mail').then((m) => ({ Component: m.MailRoute })) },
