@@ -64,6 +64,9 @@ export function explainLeftOut(state: PlanState, g: VisitGroup, spot: Spot | und
   let reason: string;
   if (!(state.baysBySite.get(site.id) ?? []).length) reason = `${site.name} has no bays.`;
   else if (!techs.some((t) => t.shifts.length)) reason = `No technician works at ${site.name} in the plan's days.`;
+  else if (!spot && deadline >= state.input.to) {
+    reason = `No bay and technician free at ${site.name} up to ${dayWords(state.input.to - 1, zone)}; it falls due ${due}, so a later plan can take it.`;
+  }
   else if (g.minutes > longest) {
     reason = `It takes ${hoursWords(g.minutes)}; the longest shift at ${site.name} is ${hoursWords(longest)}.`;
     remedies.push('split the work into shorter tasks', 'plan a longer shift for one technician');
@@ -94,8 +97,9 @@ export function explainLeftOut(state: PlanState, g: VisitGroup, spot: Spot | und
   if (overtime) remedies.push(`overtime for ${overtime.name} on ${overtime.day}`);
   if (spot) state.place(g, spot);
   if (!remedies.length) remedies.push('add working hours at the site before the due date');
-  const remedy = remedies.map((r, i) => (i === 0 ? r[0].toUpperCase() + r.slice(1) : r)).join(', or ');
-  return { reason: lead + reason, remedy: `${remedy}.` };
+  const ways = remedies.join(', or ');
+  if (!spot && deadline >= state.input.to) return { reason, remedy: `Nothing is needed yet; to do it sooner: ${ways}.` };
+  return { reason: lead + reason, remedy: `${ways[0].toUpperCase()}${ways.slice(1)}.` };
 }
 
 function daysLate(task: PlanTask, spot: Spot): string {

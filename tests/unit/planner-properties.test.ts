@@ -30,7 +30,7 @@ describe('planWorkshop on random fleets', () => {
       }),
       RUNS,
     );
-  });
+  }, 30_000);
 
   it('gives the same plan for the same input', () => {
     fc.assert(
@@ -40,7 +40,7 @@ describe('planWorkshop on random fleets', () => {
       }),
       { ...RUNS, numRuns: 40 },
     );
-  });
+  }, 30_000);
 
   it('leaves fixed visits where they are and lists every task once: in a visit, or as unplaced with words', () => {
     fc.assert(
@@ -62,7 +62,7 @@ describe('planWorkshop on random fleets', () => {
       }),
       { ...RUNS, numRuns: 40 },
     );
-  });
+  }, 30_000);
 
   it('agrees with checkPlacement: every planned visit, checked against all the others, is allowed', () => {
     fc.assert(
@@ -79,7 +79,7 @@ describe('planWorkshop on random fleets', () => {
       }),
       { ...RUNS, numRuns: 40 },
     );
-  });
+  }, 30_000);
 
   it('has a checker that sees a broken plan (two visits moved onto one bay and time, one onto a booking)', () => {
     const input = generatePlanInput({ seed: 11, sites: 1, baysPerSite: 2, techsPerSite: 2, days: 5, bikes: 10, tasks: 12, bookings: 10 });
