@@ -1,5 +1,6 @@
 import { useState, type FormEvent } from 'react';
 import { useQuery } from '@tanstack/react-query';
+import { Link } from 'react-router-dom';
 import { Button } from '../../../components/ui/button';
 import { DataTable, type Columns } from '../../../components/ui/data-table';
 import { TextField } from '../../../components/ui/field';
@@ -34,7 +35,8 @@ export function SitesRoute() {
       <form onSubmit={submit} noValidate aria-label="Add a site" className="mb-6 grid gap-4 rounded-card border-2 border-ink-line bg-paper-raised p-5 md:grid-cols-4">
         <TextField label="Name" value={form.name} onChange={(x) => setForm({ ...form, name: x.target.value })} error={errors.name ?? err?.field('name')} />
         <TextField label="Time zone" value={form.timeZone} onChange={(x) => setForm({ ...form, timeZone: x.target.value })} error={errors.timeZone ?? err?.field('timeZone')} hint="Due dates follow the site's calendar." />
-        <TextField label="Workshop bays" inputMode="numeric" value={form.bays} onChange={(x) => setForm({ ...form, bays: x.target.value })} error={errors.bays} />
+        <TextField label="Workshop bays" inputMode="numeric" value={form.bays} onChange={(x) => setForm({ ...form, bays: x.target.value })} error={errors.bays}
+          hint={<>Named Bay 1, Bay 2 …; rename them and set opening hours and working time under <Link to="/workshop" className="text-accent underline">Workshop</Link>.</>} />
         <div className="flex items-end"><Button type="submit" disabled={create.isPending}>Add site</Button></div>
         {err && !err.details.length && <p role="alert" className="text-state-stop md:col-span-4">{err.message}</p>}
       </form>
