@@ -17,7 +17,8 @@ export async function fetchCalendar(url: string, limits: FetchLimits = {}): Prom
   if (protocol !== 'http:' && protocol !== 'https:') throw new FeedFetchError('Only http:// and https:// addresses can be loaded.');
   const abort = new AbortController();
   const timer = setTimeout(() => abort.abort(), timeoutMs);
-  const tooBig = () => new FeedFetchError(`The calendar is larger than ${Math.round(maxBytes / 1024 / 1024)} MB. Ask for a shorter feed (fewer past events).`);
+  const limit = maxBytes >= 1024 * 1024 ? `${Math.round(maxBytes / 1024 / 1024)} MB` : `${maxBytes} bytes`;
+  const tooBig = () => new FeedFetchError(`The calendar is larger than ${limit}. Ask for a shorter feed (fewer past events).`);
   try {
     const res = await fetch(url, { signal: abort.signal, redirect: 'follow', headers: { accept: 'text/calendar, text/plain;q=0.5, */*;q=0.1' } });
     if (!res.ok) {

@@ -8,6 +8,7 @@ import { PASSWORD, makeBike, makeModel, world } from '../support/factories';
 import { bookingFeeds, bookings } from '../../server/db/schema';
 import { syncAllFeeds } from '../../server/services/booking-feeds';
 import { run as bookingSync } from '../../jobs/booking-sync';
+import { fetchCalendar } from '../../server/services/booking-feed-fetch';
 
 const clock = manualClock('2026-12-03T10:15:00Z');
 let t: TestContext;
@@ -38,6 +39,7 @@ beforeAll(async () => {
   await as.technicianB.login(w.people.technicianB.email, PASSWORD);
   as.signedOut = await agent(t.app);
   server = createServer((req, res) => {
+    if (req.url === '/slow.ics') return void setTimeout(() => res.end('late'), 2000);
     const p = pages.get(req.url ?? '') ?? { status: 404, body: 'no such calendar' };
     res.writeHead(p.status, { 'content-type': 'text/calendar' }).end(p.body);
   });
@@ -239,5 +241,12 @@ describe('calendar feeds (iCalendar, RFC 5545)', () => {
     expect(res.status).toBe(201);
     expect(res.body.result).toMatchObject({ ok: false, error: '404 Not Found' });
     expect(res.body.feed.status).toBe('Could not load at 10:45: 404 Not Found. No copy has loaded yet, so it adds no bookings.');
+  });
+
+  it('gives up on a feed that does not answer in time or is too large', async () => {
+    await expect(fetchCalendar(`${base}/slow.ics`, { timeoutMs: 200 })).rejects.toThrow('No answer within 0.2 s');
+    pages.set('/big.ics', { status: 200, body: 'X'.repeat(5000) });
+    await expect(fetchCalendar(`${base}/big.ics`, { maxBytes: 1000 })).rejects.toThrow('larger than 1000 bytes');
+    expect(await fetchCalendar(`${base}/big.ics`, { maxBytes: 5000 })).toHaveLength(5000);
   });
 });

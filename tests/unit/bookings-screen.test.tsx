@@ -69,7 +69,7 @@ describe('bookings screen', () => {
     fireEvent.change(screen.getByLabelText('Repeat weekly until'), { target: { value: '2027-01-09' } });
     fireEvent.click(screen.getByRole('button', { name: 'Add booking' }));
     await waitFor(() => expect(calls.some((c) => c.method === 'POST' && c.url === '/api/bookings')).toBe(true));
-    const body = calls.find((c) => c.method === 'POST' && c.url === '/api/bookings')!.body;
+    const body = calls.find((c) => c.method === 'POST' && c.url === '/api/bookings')!.body as { start: string; end: string };
     expect(body).toMatchObject({ siteId: ids.quay, kind: 'hire', bikeId: ids.sm07, modelId: null, quantity: 1, rrule: 'FREQ=WEEKLY;UNTIL=20270109' });
     // Checked with @date-fns/tz: 09:00 and 17:00 on the London wall clock.
     expect(Date.parse(body.start)).toBe(new TZDate(2026, 11, 12, 9, 0, 0, 'Europe/London').getTime());

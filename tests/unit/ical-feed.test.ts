@@ -169,7 +169,7 @@ describe('a feed with a moved and a cancelled occurrence', () => {
     const cal = new ICAL.Component(ICAL.parse(LESSONS));
     const events = cal.getAllSubcomponents('vevent').filter((v) => v.getFirstPropertyValue('uid') === 'lessons@saltmarsh.test');
     const master = new ICAL.Event(events.find((v) => !v.hasProperty('recurrence-id')));
-    const cancelled = new Set<number>();
+    const cancelled = new Set<string>();
     for (const ex of events.filter((v) => v.hasProperty('recurrence-id'))) {
       master.relateException(ex);
       if (ex.getFirstPropertyValue('status') === 'CANCELLED') cancelled.add((ex.getFirstPropertyValue('recurrence-id') as InstanceType<typeof ICAL.Time>).toString());
