@@ -62,14 +62,19 @@ export function explainLeftOut(state: PlanState, g: VisitGroup, spot: Spot | und
   const onTime = (s: Spot | undefined) => (s && s.end <= deadline ? s : undefined);
   if (spot) state.unplace(g);
   let reason: string;
-  if (!(state.baysBySite.get(site.id) ?? []).length) reason = `${site.name} has no bays.`;
-  else if (!techs.some((t) => t.shifts.length)) reason = `No technician works at ${site.name} in the plan's days.`;
-  else if (!spot && deadline >= state.input.to) {
-    reason = `No bay and technician free at ${site.name} up to ${dayWords(state.input.to - 1, zone)}; it falls due ${due}, so a later plan can take it.`;
+  let canWait = false;
+  const noBays = !(state.baysBySite.get(site.id) ?? []).length;
+  if (noBays) {
+    reason = `${site.name} has no bays.`;
+    remedies.push(`add a bay to ${site.name} in its settings`);
   }
+  else if (!techs.some((t) => t.shifts.length)) reason = `No technician works at ${site.name} in the plan's days.`;
   else if (g.minutes > longest) {
     reason = `It takes ${hoursWords(g.minutes)}; the longest shift at ${site.name} is ${hoursWords(longest)}.`;
     remedies.push('split the work into shorter tasks', 'plan a longer shift for one technician');
+  } else if (!spot && deadline >= state.input.to) {
+    canWait = true;
+    reason = `No bay and technician free at ${site.name} up to ${dayWords(state.input.to - 1, zone)}; it falls due ${due}, so a later plan can take it.`;
   } else if (!onTime(state.earliest(g, { busy: true, cover: true }))) {
     const inWay = bike.bookings.filter((b) => b.start < deadline && b.end > state.input.from).sort((a, b) => a.start - b.start);
     if (inWay.length && onTime(state.earliest(g, { busy: true, cover: true, bookings: true }))) {
@@ -93,12 +98,12 @@ export function explainLeftOut(state: PlanState, g: VisitGroup, spot: Spot | und
     const there = onTime(state.earliest(g, { cover: true }, other.id));
     if (there) remedies.unshift(`move ${bike.fleetNumber} to ${other.name} and plan it there (${dayTimeWords(there.start, other.timeZone)} is free)`);
   }
-  const overtime = overtimeDay(state, g, bike, site, deadline);
+  const overtime = noBays ? undefined : overtimeDay(state, g, bike, site, deadline);
   if (overtime) remedies.push(`overtime for ${overtime.name} on ${overtime.day}`);
   if (spot) state.place(g, spot);
   if (!remedies.length) remedies.push('add working hours at the site before the due date');
   const ways = remedies.join(', or ');
-  if (!spot && deadline >= state.input.to) return { reason, remedy: `Nothing is needed yet; to do it sooner: ${ways}.` };
+  if (canWait) return { reason, remedy: `Nothing is needed yet; to do it sooner: ${ways}.` };
   return { reason: lead + reason, remedy: `${ways[0].toUpperCase()}${ways.slice(1)}.` };
 }
 

@@ -129,6 +129,36 @@ describe('planWorkshop on hand-made weeks', () => {
   });
 });
 
+describe('planWorkshop: work that fits no shift, and work that can wait', () => {
+  it('says a task is longer than any shift (08:00–16:30 is 8.5 h) and offers to split it', () => {
+    const input = scene({ bikes: [bike('SM-02', 'quay', 'Ridgeback 400')], tasks: [task('SM-02', 'Valve clearance check', '2026-12-10', { id: 'long', minutes: 600 })] });
+    const plan = planWorkshop(input);
+    expect(plan.visits).toEqual([]);
+    expect(plan.unplaced[0]).toMatchObject({ taskId: 'long', reason: 'It takes 10 h; the longest shift at Quay Street is 8.5 h.' });
+    expect(plan.unplaced[0].remedy).toMatch(/^Split the work into shorter tasks, or plan a longer shift for one technician/);
+  });
+
+  it('leaves work due after the plan for a later plan when the week is full, and says nothing is needed yet', () => {
+    const technicians = [
+      { id: 'tomasz', name: 'Tomasz Reed', siteId: 'quay', shifts: shifts([WEEK[0]]) },
+      { id: 'priya', name: 'Priya Vale', siteId: 'airfield', shifts: [] },
+    ];
+    const bikes = [bike('SM-01', 'quay', 'Strider 125'), bike('SM-02', 'quay', 'Strider 125')];
+    const tasks = [task('SM-01', 'Oil change', '2026-12-07', { id: 'now', minutes: 480 }), task('SM-02', 'Oil change', '2026-12-21', { id: 'later', minutes: 120 })];
+    const plan = planWorkshop(scene({ bikes, tasks, technicians }));
+    expect(plan.visits.map((v) => v.taskIds)).toEqual([['now']]);
+    expect(plan.unplaced).toEqual([
+      {
+        taskId: 'later',
+        bikeId: 'SM-02',
+        siteId: 'quay',
+        reason: 'No bay and technician free at Quay Street up to Sun 13 Dec; it falls due Mon 21 Dec, so a later plan can take it.',
+        remedy: 'Nothing is needed yet; to do it sooner: overtime for Tomasz Reed on Sun 13 Dec.',
+      },
+    ]);
+  });
+});
+
 describe('checkPlacement', () => {
   const sm07 = bike('SM-07', 'quay', 'Breeze 125', { bookings: [{ bookingId: 'family', kind: 'hire', title: 'Family weekend', start: at(WEEK[5], 9), end: at(WEEK[6], 17) }] });
   const sm04 = bike('SM-04', 'quay', 'Strider 125');
