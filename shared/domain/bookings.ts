@@ -1,10 +1,5 @@
 import { TZDate } from '@date-fns/tz';
-import * as rruleModule from 'rrule';
-
-// Node loads rrule's CommonJS build, whose exports sit on `default`; bundlers load its ES build, which
-// has no default (as in due.ts).
-type RruleModule = typeof rruleModule;
-const { RRule } = (Reflect.get(rruleModule, 'default') as RruleModule | undefined) ?? rruleModule;
+import { RRule } from './rrule';
 
 // When bikes are needed. A booking repeats by an RFC 5545 RRULE counted from its start, and the rule
 // runs on the SITE's wall clock: a weekly 09:00 lesson stays at 09:00 local across a daylight-saving

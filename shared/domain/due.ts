@@ -1,12 +1,7 @@
-import * as rruleModule from 'rrule';
 import type { Options as RuleOptions } from 'rrule';
 import { addDaysIso, addMonthsIso, assertIsoDate, compareIso, daysBetween, fromUtcDate, isIsoDate, toUtcDate, type IsoDate } from './dates';
 import { usageRate, type KmReading } from './usage';
-
-// Node loads rrule's CommonJS build, whose exports sit on `default`; bundlers
-// load its ES build, which has no default. Reflect.get keeps bundlers quiet.
-type RruleModule = typeof rruleModule;
-const { RRule } = (Reflect.get(rruleModule, 'default') as RruleModule | undefined) ?? rruleModule;
+import { RRule } from './rrule';
 
 // ---- Repeat rules (RFC 5545 RRULE, whole days only) ----
 

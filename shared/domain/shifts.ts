@@ -1,9 +1,7 @@
 import { TZDate } from '@date-fns/tz';
-import rrulePkg from 'rrule';
 import type { Interval } from './plan-types';
 import { addDaysIso, startOfDayInZone, todayInZone, toUtcDate } from './dates';
-
-const { RRule, rrulestr } = rrulePkg;
+import { RRule, rrulestr } from './rrule';
 
 // Workshop capacity as working time. Opening hours and working patterns are written on the site's
 // wall clock ("08:00–16:30 every weekday"); the planner needs instants. Days are walked as calendar
