@@ -31,6 +31,7 @@ import { backupRoutes } from './routes/backup';
 import { attachmentRoutes } from './routes/attachments';
 import { capacityRoutes } from './routes/capacity';
 import { bookingRoutes } from './routes/bookings';
+import { workshopPlanRoutes } from './routes/workshop-plan';
 import type { BlobStore } from './storage/types';
 import { createMemoryBlobStore } from './storage/memory';
 import type { JobDeps } from '../jobs/types';
@@ -163,6 +164,7 @@ export function createApp(deps: AppDeps): Express {
   api.use('/', attachmentRoutes(ctx, blobStore, { maxBytes: deps.uploadMaxBytes }));
   api.use('/', capacityRoutes(ctx));
   api.use('/', bookingRoutes(ctx));
+  api.use('/plan', workshopPlanRoutes(ctx));
   api.use(apiNotFound);
 
   app.use('/api', api);
