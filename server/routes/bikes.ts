@@ -23,6 +23,7 @@ import { fleetNumberTaken, getBike, listBikes, readingsOf } from '../services/bi
 import { listDue } from '../services/due-list';
 import { rideVerdict } from '../services/ride-check';
 import { bikeTimeline } from '../services/timeline';
+import { replanAfter } from '../services/replan';
 import { CheckInSchema, type CheckIn } from '../../shared/schemas/due';
 
 const fleetTaken = (n: string) =>
@@ -70,6 +71,9 @@ export function bikeRoutes(ctx: AppContext) {
       const user = currentUser(req);
       const { id } = req.valid.params as { id: string };
       const { reading, grounded, defectId, bike, due } = await ctx.checkIns.record(user, id, req.valid.body as CheckIn, ctx.now());
+      // A new reading moves km-based due dates; the bike's visit follows when it has work raised, or
+      // when the check-in grounded it. The answer does not wait for the re-plan.
+      if (grounded || due.some((d) => d.taskId)) void replanAfter(db, { siteIds: [bike.site.id], bikeIds: [id], why: `check-in of ${bike.fleetNumber}` }, ctx.now());
       res.status(201).json({
         reading: { id: reading.id, date: reading.date, value: reading.value, unit: reading.unit, odometerKm: reading.odometerKm, reset: reading.reset },
         bike,

@@ -10,6 +10,8 @@ import { toKm } from '../../shared/domain/units';
 import { audit } from '../audit';
 import { HttpError, badRequest, conflict, notFound } from '../http-error';
 import { recomputeBike } from './due';
+import { replanAfter } from './replan';
+import { settleVisitsOfBike } from './workshop-plan';
 
 const assignee = alias(users, 'task_assignee');
 
@@ -131,7 +133,7 @@ export interface CloseInput {
  * `extra` writes what a particular kind of task records (valve readings, shim stock) in the same transaction.
  */
 export async function closeTask(db: Db, user: SessionUser, id: string, input: CloseInput, now: Date, extra?: (tx: Tx, ctx: { taskId: string; bikeId: string; siteId: string; date: string; odometerKm: number; recordId: string }) => Promise<void>, fromValveCard = false) {
-  return db.transaction(async (tx) => {
+  const closed = await db.transaction(async (tx) => {
     const row = await lockTask(tx, user, id);
     if (row.t.status === 'done' || row.t.status === 'cancelled') throw closedAlready(row.t.status);
     if (row.t.version !== input.version) throw conflict('Someone changed this task while you worked on it. Reload it; your readings are kept on this device.');
@@ -158,8 +160,12 @@ export async function closeTask(db: Db, user: SessionUser, id: string, input: Cl
     if (!stillOnBench) await tx.update(bikes).set({ status: 'in_service', updatedAt: now }).where(and(eq(bikes.id, row.t.bikeId), eq(bikes.status, 'in_workshop')));
     await audit(tx, { userId: user.id, action: 'close', entity: 'task', entityId: id, changes: { date, odometerKm, notes: input.notes ?? null } });
     await recomputeBike(tx, row.t.bikeId, now);
-    return { recordId: record.id };
+    // A visit with nothing left open in it is over; the next re-plan places what the bike still needs.
+    await settleVisitsOfBike(tx, row.t.bikeId, now);
+    return { recordId: record.id, bikeId: row.t.bikeId, siteId: row.siteId };
   });
+  await replanAfter(db, { siteIds: [closed.siteId], bikeIds: [closed.bikeId], why: 'task signed off' }, now);
+  return { recordId: closed.recordId };
 }
 
 export async function assignableTechnicians(db: DbOrTx, user: SessionUser) {
