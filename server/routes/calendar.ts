@@ -1,7 +1,7 @@
 import { createHmac, timingSafeEqual } from 'node:crypto';
 import { Router } from 'express';
 import { eq, sql } from 'drizzle-orm';
-import ical from 'ical-generator';
+import ical, { ICalEventStatus } from 'ical-generator';
 import { z } from 'zod';
 import type { AppContext } from '../app';
 import { currentUser, publicRoute, signedIn } from '../middleware/auth';
@@ -9,6 +9,7 @@ import { validate } from '../middleware/validate';
 import { users } from '../db/schema';
 import { loadSessionUser } from '../services/users';
 import { listDue } from '../services/due-list';
+import { visitsForCalendar } from '../services/workshop-plan';
 import { addDaysIso } from '../../shared/domain/dates';
 import { notFound } from '../http-error';
 
@@ -58,6 +59,22 @@ export function calendarRoutes(ctx: AppContext) {
         summary: `${d.status === 'overdue' ? 'OVERDUE: ' : ''}${d.fleetNumber} ${d.item}`,
         description: `${d.siteName} · ${d.modelName}\nDue by ${d.trigger ?? '—'}; ${d.remainingKm == null ? '' : `${Math.round(d.remainingKm)} km left; `}technician: ${d.assignee?.name ?? 'unassigned'}`,
         url: `${ctx.publicUrl(req)}/fleet/${d.bikeId}`,
+      });
+    }
+    // Workshop visits, timed. The UID stays with the visit and SEQUENCE rises on every move
+    // (RFC 5545 §3.8.7.4), so a calendar app updates the event rather than adding a second one.
+    for (const v of await visitsForCalendar(db, user, ctx.now())) {
+      cal.createEvent({
+        id: `visit-${v.id}@lashline`,
+        sequence: v.sequence,
+        stamp: new Date(v.updatedAt),
+        start: new Date(v.start),
+        end: new Date(v.end),
+        status: v.status === 'cancelled' ? ICalEventStatus.CANCELLED : ICalEventStatus.CONFIRMED,
+        summary: `${v.status === 'cancelled' ? 'Cancelled: ' : ''}Workshop: ${v.fleetNumber} on ${v.bayName}`,
+        description: `${v.siteName} · ${v.modelName} · technician: ${v.technicianName}\n${v.items.join('\n')}`,
+        location: `${v.siteName}, ${v.bayName}`,
+        url: `${ctx.publicUrl(req)}/plan`,
       });
     }
     res.setHeader('Content-Type', 'text/calendar; charset=utf-8');
