@@ -3,7 +3,7 @@ import { loadDueInputs } from '../server/services/due-data';
 import { applyDue, computeAll } from '../server/services/due';
 import { valveWarningsFor } from '../server/services/valve-warnings';
 import { addDaysIso, todayInZone } from '../shared/domain/dates';
-import { run as dueScan } from '../jobs/due-scan';
+import { scan as dueScan } from '../jobs/due-scan';
 import type { JobDeps } from '../jobs/types';
 import type { RawSql } from './raw-sql';
 

@@ -2,12 +2,14 @@ import type { JobDeps, JobResult } from './types';
 import { loadDueInputs } from '../server/services/due-data';
 import { applyDue, computeAll } from '../server/services/due';
 import { valveWarningsForScan } from '../server/services/valve-warnings';
+import { runPlan } from '../server/services/workshop-plan';
+import { sites } from '../server/db/schema';
 
 /**
  * The due scan: every bike × service item through computeDue, results stored, one task per
  * due cycle raised, bikes with overdue safety-critical work grounded. Safe to run twice or at once.
  */
-export async function run(deps: JobDeps): Promise<JobResult> {
+export async function scan(deps: JobDeps): Promise<JobResult> {
   const now = deps.now();
   const started = Date.now();
   const inputs = await loadDueInputs(deps.db, now);
@@ -25,5 +27,19 @@ export async function run(deps: JobDeps): Promise<JobResult> {
     ...report,
     valveWarnings: warnings.length,
     ms,
+  };
+}
+
+/** The nightly job: the scan, then the workshop plan of every site, so new tasks get a visit at once. */
+export async function run(deps: JobDeps): Promise<JobResult> {
+  const scanned = await scan(deps);
+  const siteIds = (await deps.db.select({ id: sites.id }).from(sites)).map((s) => s.id);
+  const plan = await runPlan(deps.db, { siteIds, why: 'nightly due scan', now: deps.now() });
+  return {
+    ...scanned,
+    summary: `${scanned.summary} Plan: ${plan.visits} visits, ${plan.unplaced} tasks not placed, in ${plan.ms} ms.`,
+    planVisits: plan.visits,
+    planUnplaced: plan.unplaced,
+    planMs: plan.ms,
   };
 }

@@ -9,8 +9,23 @@ export interface DigestData {
   thisWeek: DueItem[];
   grounded: { fleetNumber: string; siteName: string; reason: string | null }[];
   valveWarnings: { fleetNumber: string; valve: string; message: string }[];
+  /** The coming week's workshop plan, per site. */
+  plan: DigestPlanSite[];
   appUrl: string;
 }
+
+export interface DigestPlanSite {
+  siteId: string;
+  siteName: string;
+  days: { date: string; visits: string[]; plannedMinutes: number; availableMinutes: number }[];
+  unplaced: string[];
+}
+
+const hours = (min: number) => `${(Math.round(min / 6) / 10).toLocaleString('en-GB')} h`;
+const used = (day: DigestPlanSite['days'][number]) =>
+  `${hours(day.plannedMinutes)} of ${hours(day.availableMinutes)}${day.availableMinutes ? ` (${Math.round((100 * day.plannedMinutes) / day.availableMinutes)} %)` : ''}`;
+const dayLine = (day: DigestPlanSite['days'][number]) =>
+  `${day.date}: ${day.visits.length} visit${day.visits.length === 1 ? '' : 's'}, ${used(day)} planned${day.visits.length ? ` · ${day.visits.join(', ')}` : ''}`;
 
 const km = (v: number | null) => (v == null ? '—' : `${Math.round(v).toLocaleString('en-GB')} km`);
 const line = (d: DueItem) =>
@@ -30,6 +45,14 @@ export function renderDigest(d: DigestData) {
     '',
     `Your fleet on ${d.today}.`,
     ...sections.flatMap(([title, rows]) => ['', `${title} (${rows.length})`, ...(rows.length ? rows.map((r) => `- ${r}`) : ['- none'])]),
+    ...d.plan.flatMap((p) => [
+      '',
+      `Workshop plan at ${p.siteName}, next 7 days`,
+      ...p.days.map((day) => `- ${dayLine(day)}`),
+      `Not placed (${p.unplaced.length})`,
+      ...(p.unplaced.length ? p.unplaced.map((u) => `- ${u}`) : ['- none']),
+      `Plan board: ${d.appUrl}/plan?site=${p.siteId}`,
+    ]),
     '',
     `Open the board: ${d.appUrl}/this-week`,
     '',
@@ -53,6 +76,16 @@ export function renderDigest(d: DigestData) {
 <h2 style="font-size:17px">Due this week (${d.thisWeek.length})</h2>${table(d.thisWeek)}
 <h2 style="font-size:17px">Out of service (${d.grounded.length})</h2>${list(sections[2][1])}
 <h2 style="font-size:17px">Valve clearance warnings (${d.valveWarnings.length})</h2>${list(sections[3][1])}
+${d.plan
+  .map(
+    (p) => `<h2 style="font-size:17px">Workshop plan at ${escapeHtml(p.siteName)}, next 7 days</h2>
+<table cellpadding="6" style="border-collapse:collapse;width:100%;font-size:14px"><tr style="background:#ebe5d9;text-align:left"><th>Day</th><th>Visits</th><th>Planned</th><th>Bikes</th></tr>${p.days
+      .map((day) => `<tr style="border-top:1px solid #c9c2b6"><td>${day.date}</td><td>${day.visits.length}</td><td>${used(day)}</td><td>${escapeHtml(day.visits.join(', ') || '—')}</td></tr>`)
+      .join('')}</table>
+<h3 style="font-size:15px;color:#8c1c1c">Not placed (${p.unplaced.length})</h3>${list(p.unplaced)}
+<p><a href="${d.appUrl}/plan?site=${p.siteId}">Open the plan board</a></p>`,
+  )
+  .join('\n')}
 <p><a href="${d.appUrl}/this-week">Open the board</a></p>
 <p style="font-size:12px;color:#5b6673">Lashline tracks and reminds; the maker’s service manual and a qualified technician decide, under local law.</p>
 </body></html>`;
