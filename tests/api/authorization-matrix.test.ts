@@ -96,6 +96,13 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
   'GET /api/booking-feeds': ['manager', 'admin'],
   'POST /api/booking-feeds': ['manager', 'admin'],
   'DELETE /api/booking-feeds/:id': ['manager', 'admin'],
+  'GET /api/plan': ['manager', 'admin', 'technician'],
+  'POST /api/plan/run': ['manager', 'admin'],
+  'PATCH /api/plan/visits/:id': ['manager', 'admin'],
+  'GET /api/plan/my-day': ['technician', 'manager'],
+  'GET /api/plan/next-visits': ALL,
+  'GET /api/plan/settings': ['manager', 'admin'],
+  'PUT /api/plan/settings': ['manager', 'admin'],
 };
 
 let t: TestContext;

@@ -5,7 +5,7 @@ import ICAL from 'ical.js';
 import { and, eq } from 'drizzle-orm';
 import { agent, manualClock, testApp, type Agent, type TestContext } from '../support/test-app';
 import { PASSWORD, makeBike, makeServiceItem, makeUser, world } from '../support/factories';
-import { auditLog, bikes, odometerReadings, serviceTasks } from '../../server/db/schema';
+import { auditLog, bikes, odometerReadings, serviceTasks, unplacedTasks, visitTasks, visits } from '../../server/db/schema';
 import { run as dueScan } from '../../jobs/due-scan';
 
 const clock = manualClock('2026-06-15T09:00:00Z');
@@ -55,6 +55,12 @@ describe('the due scan', () => {
     const keys = tasks.map((x) => `${x.bikeId}:${x.serviceItemId}`);
     expect(new Set(keys).size).toBe(keys.length);
     expect(tasks.some((x) => x.bikeId === ids.fine)).toBe(false);
+    // The nightly run re-plans after it raises: every open task has a visit or a reason why not.
+    expect(Number(first.planVisits) + Number(first.planUnplaced)).toBeGreaterThan(0);
+    const placed = await t.database.db.select({ taskId: visitTasks.taskId }).from(visitTasks).innerJoin(visits, eq(visits.id, visitTasks.visitId)).where(eq(visits.status, 'planned'));
+    const listed = await t.database.db.select({ taskId: unplacedTasks.taskId }).from(unplacedTasks);
+    const accounted = new Set([...placed, ...listed].map((r) => r.taskId));
+    for (const task of tasks.filter((x) => x.status === 'open')) expect(accounted.has(task.id), `task ${task.id} neither planned nor listed`).toBe(true);
   });
 
   it('raises nothing twice when two scans run at once', async () => {

@@ -139,7 +139,14 @@ describe('the weekly due list by e-mail', () => {
     const parsed = await simpleParser(raw.text);
     expect(parsed.subject).toContain('2026-W25');
     expect(parsed.text).toContain('Overdue');
+    // The coming week's workshop plan for each of the manager's sites: one line a day, capacity used, work not placed.
+    const planBlocks = (parsed.text ?? '').split('\n').filter((l) => /^Workshop plan at .+, next 7 days$/.test(l));
+    expect(planBlocks.length).toBe(2); // the manager runs both sites of the test world
+    const dayLines = (parsed.text ?? '').split('\n').filter((l) => /^- \d{4}-\d{2}-\d{2}: \d+ visits?, [\d.,]+ h of [\d.,]+ h/.test(l));
+    expect(dayLines.length).toBe(7 * planBlocks.length);
+    expect(parsed.text).toMatch(/Not placed \(\d+\)/);
     expect(typeof parsed.html).toBe('string');
+    expect(parsed.html).toContain('Open the plan board');
     const shown = await admin.get(`/api/admin/mail/${list.body.items[0].id}`);
     expect(shown.body.message.html).toContain('Due this week');
   });
