@@ -5,7 +5,7 @@ import { jsonRows, sqlList } from '../db/json-rows';
 import type { SessionUser } from '../../shared/schemas/auth';
 import type { MyDay, NextVisit, PlanAnswer, PlanBooking, PlanCapacity, PlanQuery, PlanVisit, VisitMove } from '../../shared/schemas/plan';
 import type { PlanResult, PlannedVisit } from '../../shared/domain/plan-types';
-import { checkPlacement, planWorkshop } from '../../shared/domain/planner';
+import { checkPlacement, dueWithinHorizon, planWorkshop } from '../../shared/domain/planner';
 import { addDaysIso, daysBetween, formatInZone, startOfDayInZone, todayInZone } from '../../shared/domain/dates';
 import { canSeeSite } from '../../shared/domain/policies';
 import { audit } from '../audit';
@@ -31,7 +31,7 @@ export interface PlanRunReport {
 export async function runPlan(db: Db, change: PlanChange & { now: Date }): Promise<PlanRunReport> {
   const started = Date.now();
   const loaded = await loadPlanInput(db, { siteIds: change.siteIds, now: change.now, bikeIds: change.bikeIds });
-  const result = planWorkshop(loaded.input);
+  const result = planWorkshop(dueWithinHorizon(loaded.input));
   const report = await db.transaction((tx) => storePlan(tx, loaded, result, change));
   return { ...report, ms: Date.now() - started };
 }

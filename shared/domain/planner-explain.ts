@@ -63,12 +63,22 @@ export function explainLeftOut(state: PlanState, g: VisitGroup, spot: Spot | und
   if (spot) state.unplace(g);
   let reason: string;
   let canWait = false;
+  let overdue = false;
   const noBays = !(state.baysBySite.get(site.id) ?? []).length;
   if (noBays) {
     reason = `${site.name} has no bays.`;
     remedies.push(`add a bay to ${site.name} in its settings`);
   }
   else if (!techs.some((t) => t.shifts.length)) reason = `No technician works at ${site.name} in the plan's days.`;
+  else if (deadline <= state.input.from) {
+    overdue = true;
+    reason = `It was already overdue when this plan was made (due ${due}), so no time before its due date is left.`;
+    remedies.push(
+      g.tasks.some((t) => t.safetyCritical)
+        ? `keep ${bike.fleetNumber} off hires and lessons until the work is signed off`
+        : `do it at the first free time; move other work on the board to bring it sooner`,
+    );
+  }
   else if (g.minutes > longest) {
     reason = `It takes ${hoursWords(g.minutes)}; the longest shift at ${site.name} is ${hoursWords(longest)}.`;
     remedies.push('split the work into shorter tasks', 'plan a longer shift for one technician');
@@ -94,11 +104,11 @@ export function explainLeftOut(state: PlanState, g: VisitGroup, spot: Spot | und
   } else reason = `No bay and technician free at ${site.name} before ${due}; ${hoursWords(shortMinutes)} short.`;
 
   for (const other of state.input.sites) {
-    if (other.id === site.id) continue;
+    if (other.id === site.id || overdue) continue;
     const there = onTime(state.earliest(g, { cover: true }, other.id));
     if (there) remedies.unshift(`move ${bike.fleetNumber} to ${other.name} and plan it there (${dayTimeWords(there.start, other.timeZone)} is free)`);
   }
-  const overtime = noBays ? undefined : overtimeDay(state, g, bike, site, deadline);
+  const overtime = noBays || overdue ? undefined : overtimeDay(state, g, bike, site, deadline);
   if (overtime) remedies.push(`overtime for ${overtime.name} on ${overtime.day}`);
   if (spot) state.place(g, spot);
   if (!remedies.length) remedies.push('add working hours at the site before the due date');

@@ -216,6 +216,21 @@ export function prepareGroups(input: PlanInput): VisitGroup[] {
 }
 
 /**
+ * The input with only the work a plan made now should place: a visit whose items all fall due after
+ * the horizon waits for a later plan. Placed now, it would take the first free slot weeks early
+ * (the bike losing that much of its service interval) and hold a bay that nearer work may need.
+ * Work due inside the horizon still brings the later items of its window with it.
+ */
+export function dueWithinHorizon(input: PlanInput): PlanInput {
+  const keep = new Set(
+    groupIntoVisits(input.tasks, input.windowDays, input.windowKm)
+      .filter((g) => g.tasks.some((t) => t.deadline <= input.to))
+      .flatMap((g) => g.taskIds),
+  );
+  return { ...input, tasks: input.tasks.filter((t) => keep.has(t.id)) };
+}
+
+/**
  * The plan. Work that fits nowhere before its due date is still placed, as early as it can be, when
  * the horizon has room; it is then listed in `unplaced` too, with a reason that starts "Placed on …"
  * and a way out, so the desk sees it. Work with no room in the horizon at all is only in `unplaced`.

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import rrulePkg from 'rrule';
 import { format } from 'date-fns';
 import { TZDate } from '@date-fns/tz';
-import { checkPlacement, groupIntoVisits, planWorkshop } from '../../shared/domain/planner';
+import { checkPlacement, dueWithinHorizon, groupIntoVisits, planWorkshop } from '../../shared/domain/planner';
 import type { FixedVisit, ModelDemand } from '../../shared/domain/plan-types';
 import { WEEK, ZONE, at, bike, brokenRules, scene, shifts, task, weekdays } from './planner-scene';
 
@@ -156,6 +156,38 @@ describe('planWorkshop: work that fits no shift, and work that can wait', () => 
         remedy: 'Nothing is needed yet; to do it sooner: overtime for Tomasz Reed on Sun 13 Dec.',
       },
     ]);
+  });
+});
+
+describe('what a plan made now takes in', () => {
+  it('leaves a visit due wholly after the horizon for a later plan, and keeps later items that join a visit due inside it', () => {
+    const bikes = [bike('SM-01', 'quay', 'Strider 125'), bike('SM-02', 'quay', 'Strider 125')];
+    const tasks = [
+      task('SM-01', 'Oil change', '2026-12-09', { id: 'oil' }),
+      // 9 Dec + 14 days = 23 Dec: inside SM-01's window, so it comes in with the oil change.
+      task('SM-01', 'Chain adjust', '2026-12-20', { id: 'chain' }),
+      // Due 7 Jan, alone: weeks after the plan's last day (Sun 13 Dec).
+      task('SM-02', 'Chain adjust', '2027-01-07', { id: 'far' }),
+    ];
+    const input = dueWithinHorizon(scene({ bikes, tasks }));
+    expect(input.tasks.map((t) => t.id)).toEqual(['oil', 'chain']);
+    const plan = planWorkshop(input);
+    expect(plan.visits.map((v) => v.taskIds)).toEqual([['oil', 'chain']]);
+    expect(plan.unplaced).toEqual([]);
+  });
+
+  it('says work was already overdue when the plan was made, and for safety-critical work to keep the bike in', () => {
+    const technicians = [
+      { id: 'tomasz', name: 'Tomasz Reed', siteId: 'quay', shifts: shifts(weekdays) },
+      { id: 'priya', name: 'Priya Vale', siteId: 'airfield', shifts: [] },
+    ];
+    // Due Fri 4 Dec, before the plan's first day (Mon 7 Dec).
+    const input = scene({ bikes: [bike('SM-01', 'quay', 'Strider 125')], tasks: [task('SM-01', 'Brake pads inspection', '2026-12-04', { id: 'late', safetyCritical: true })], technicians });
+    const plan = planWorkshop(input);
+    expect(plan.visits.map((v) => dayName(v.start))).toEqual(['Mon 7 Dec']);
+    expect(plan.unplaced).toHaveLength(1);
+    expect(plan.unplaced[0].reason).toBe('Placed on Mon 7 Dec, 3 days after Brake pads inspection falls due (Fri 4 Dec). It was already overdue when this plan was made (due Fri 4 Dec), so no time before its due date is left.');
+    expect(plan.unplaced[0].remedy).toBe('Keep SM-01 off hires and lessons until the work is signed off.');
   });
 });
 
