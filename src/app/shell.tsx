@@ -10,6 +10,8 @@ export function Shell() {
   const logout = useLogout();
   const navigate = useNavigate();
   const location = useLocation();
+  // The plan board shows two weeks side by side: it takes the whole width of a workshop screen.
+  const wide = location.pathname === '/plan';
   if (me.isPending) return <div className="p-6"><Loading what="your account" /></div>;
   if (!me.data) return <Navigate to="/sign-in" replace state={{ from: location.pathname }} />;
   const user = me.data;
@@ -45,7 +47,7 @@ export function Shell() {
           </div>
         </div>
       </header>
-      <main className="mx-auto max-w-7xl px-4 py-6">
+      <main className={`mx-auto px-4 py-6 ${wide ? 'max-w-none' : 'max-w-7xl'}`}>
         <Outlet context={user} />
       </main>
     </div>

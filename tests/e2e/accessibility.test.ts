@@ -197,6 +197,19 @@ describe.skipIf(!hasBrowser)('every main screen passes axe-core’s WCAG 2.2 A a
       await page.close();
     });
 
+    it('the plan board, bookings and the workshop', async () => {
+      const page = await as('imogen@saltmarsh.test');
+      await go(page, '/plan');
+      await check(page, 'plan board', (p) => p.getByTestId('plan-board').waitFor());
+      await go(page, '/plan?by=technician');
+      await check(page, 'plan board by technician', (p) => p.getByTestId('plan-board').waitFor());
+      await go(page, '/bookings');
+      await check(page, 'bookings', (p) => p.locator('h1').first().waitFor());
+      await go(page, '/workshop');
+      await check(page, 'workshop', (p) => p.locator('h1').first().waitFor());
+      await page.close();
+    });
+
     it('models and plans, and the model editor', async () => {
       const page = await as('imogen@saltmarsh.test');
       await go(page, '/plans');

@@ -16,7 +16,7 @@ export function UnplacedList({ items }: { items: PlanUnplaced[] }) {
           {items.map((u) => (
             <li key={u.taskId} className="border-l-4 border-state-soon pl-3">
               <p className="font-semibold">
-                <Link to={`/fleet/${u.bikeId}`} className="text-accent underline-offset-4 hover:underline">{u.fleetNumber}</Link> · {u.itemName}
+                <Link to={`/fleet/${u.bikeId}`} className="text-accent underline underline-offset-4">{u.fleetNumber}</Link> · {u.itemName}
               </p>
               <p className="num text-sm text-ink-soft">Due {formatDate(u.dueDate)}</p>
               <p><span className="font-semibold">Why:</span> {u.reason}</p>
