@@ -48,7 +48,8 @@ export function installPageMetrics() {
   }
   const check = () => {
     if (state.firstRowDomAt !== null) return;
-    const tr = document.querySelector('tbody tr');
+    // A table's first row; on the plan board, its first visit block.
+    const tr = document.querySelector(location.pathname === '/plan' ? '[data-testid^="visit-"]' : 'tbody tr');
     if (!tr || tr.getBoundingClientRect().height === 0) return;
     state.firstRowDomAt = performance.now();
     observer.disconnect();

@@ -9,6 +9,7 @@ import { figureRows } from './figures';
 import { figuresTable, load, machine, phasesTable, type Phase } from './report';
 import { resultsMarkdown } from './results-file';
 import { startWorker, type Memory, type Worker } from './worker-client';
+import type { PlanFigures } from './plan-bench';
 
 /**
  * The fleet-scale benchmark: generates the synthetic fleets, then measures the due scan, the due
@@ -26,6 +27,7 @@ export interface Results {
   generated: GenerateReport[];
   scans: ScanFigures[];
   api?: ApiFigures;
+  plan?: PlanFigures;
   bundle?: BundleFigures;
   screens?: ScreenFigures[];
   memory?: { start: Memory; end: Memory; afterGc: Memory };
@@ -82,7 +84,10 @@ async function main() {
       const w = await restart();
       res.api = await apiPhase(w);
       for (const [k, v] of Object.entries(res.api.seconds)) res.phases.push({ phase: k, seconds: v });
-      if (!args.skipClient) res.screens = await timed(res.phases, 'Chromium: sign in, /fleet, /this-week', () => browserBench(w.url));
+      // The workshop plan on this fleet: bays, technicians and 3,000 bookings are added first, so
+      // the screens below include the plan board with its visits.
+      res.plan = await timed(res.phases, `Workshop plan, ${bikes.toLocaleString('en-GB')} bikes`, () => w.call<PlanFigures>('plan', { bikes }));
+      if (!args.skipClient) res.screens = await timed(res.phases, 'Chromium: sign in, /fleet, /this-week, /plan', () => browserBench(w.url));
       res.memory = { start: w.startMemory, end: await w.call<Memory>('memory'), afterGc: await w.call<Memory>('memoryAfterGc') };
     }, main ? dist : undefined);
   }

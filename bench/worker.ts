@@ -11,6 +11,7 @@ import { rawSql, statementRecorder } from './raw-sql';
 import { cpuProfiler } from './cpu-profile';
 import { scanParts, timedFloor, timedScan } from './scan-bench';
 import { checkInTargets, countExisting, explain, readingCount, timedInsertFloor, timedListDue } from './direct-bench';
+import { planPhase } from './plan-bench';
 
 /**
  * The server under test, in its own process: the real app over the generated data, plus the
@@ -63,6 +64,7 @@ type Handler = (args: Record<string, unknown>) => Promise<unknown> | unknown;
 const handlers: Record<string, Handler> = {
   scan: () => timedScan(database),
   scanParts: () => scanParts(database),
+  plan: (a) => planPhase(database, Number(a.bikes)),
   floor: () => timedFloor(raw),
   listDue: (a) => timedListDue(database, { maxRuns: Number(a.maxRuns ?? 50), maxMs: Number(a.maxMs ?? 8000) }),
   checkInTargets: () => checkInTargets(raw),

@@ -1,6 +1,7 @@
 // Time structures the planner searches on: a lane of busy intervals per bay, technician and bike,
 // and a step function per model at a site that counts the bikes free for its bookings.
 import type { Interval } from './plan-types';
+import { mergeIntervals } from './shifts';
 
 /** Visits start on a quarter-hour grid. */
 export const QUARTER = 15 * 60_000;
@@ -124,17 +125,8 @@ export class Cover {
   }
 }
 
-/** The union of some intervals, sorted and merged. */
-export function union(list: Interval[]): Interval[] {
-  const sorted = [...list].filter((i) => i.end > i.start).sort((a, b) => a.start - b.start || a.end - b.end);
-  const out: Interval[] = [];
-  for (const i of sorted) {
-    const last = out[out.length - 1];
-    if (last && i.start <= last.end) last.end = Math.max(last.end, i.end);
-    else out.push({ start: i.start, end: i.end });
-  }
-  return out;
-}
+/** The union of some intervals, sorted and merged (the same merge the shift rules use). */
+export const union = (list: readonly Interval[]): Interval[] => mergeIntervals(list);
 
 /** Milliseconds of [start, end) covered by a merged, sorted list. */
 export function overlapMs(start: number, end: number, merged: Interval[]): number {
