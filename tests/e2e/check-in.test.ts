@@ -45,7 +45,13 @@ describe.skipIf(!hasBrowser)('the desk checks a bike in and the manager’s due 
         await d.getByRole('button', { name: 'Save check-in' }).click();
         const confirm = d.getByRole('button', { name: 'Yes, the reading is right' });
         if (await confirm.isVisible().catch(() => false)) await confirm.click();
-        await d.getByText(/May go out|Do not hand this bike to a rider/).first().waitFor();
+        // Depending on the hour, the demo plan may have SM-20 in the workshop later today: the desk
+        // is then asked before the bike goes out, and answers that it goes out.
+        const verdict = d.getByText(/May go out|Do not hand this bike to a rider/).first();
+        const handOut = d.getByRole('button', { name: 'Yes, hand it out' });
+        await verdict.or(handOut).first().waitFor();
+        if (await handOut.isVisible().catch(() => false)) await handOut.click();
+        await verdict.waitFor();
       });
 
       await m.reload();

@@ -28,24 +28,28 @@ const sameTimeOn = (iso: string, day: string) => {
 const overlaps = (a0: number, a1: number, b0: number, b1: number) => a0 < b1 && b0 < a1;
 
 /**
- * Days a visit could move to on its own bay, keeping its time of day: after today, not after its
- * latest day, a day its site's one technician works in full, with the bay, the technician and the
- * bike free then.
+ * Places a visit could move to at its site, keeping its time of day: a day after today, not after
+ * its latest day, that its technician works in full, on a bay that is free then, with the
+ * technician and the bike free too and no booking of the bike or of its model then. One place per
+ * day, the visit's own bay first.
  */
-function freeDays(plan: PlanAnswer, v: PlanVisit) {
+function freePlaces(plan: PlanAnswer, v: PlanVisit, modelId: string) {
   const length = Date.parse(v.end) - Date.parse(v.start);
   const today = todayInZone(ZONE, new Date());
+  const bays = [v.bayId, ...plan.bays.filter((b) => b.siteId === v.siteId && b.id !== v.bayId).map((b) => b.id)];
   return plan.capacity
     .filter((c) => c.siteId === v.siteId && c.date > today && c.date <= v.latestDate && c.date !== todayInZone(ZONE, new Date(v.start)) && c.availableMinutes >= 480)
-    .map((c) => c.date)
-    .filter((day) => {
-      const s = Date.parse(sameTimeOn(v.start, day));
+    .flatMap((c) => {
+      const s = Date.parse(sameTimeOn(v.start, c.date));
       const e = s + length;
-      const clash = plan.visits.some((o) => o.id !== v.id && (o.bayId === v.bayId || o.technicianId === v.technicianId || o.bikeId === v.bikeId) && overlaps(s, e, Date.parse(o.start), Date.parse(o.end)));
-      const booked = plan.bookings.some((b) => (b.bikeId === v.bikeId || (!b.bikeId && b.modelId)) && overlaps(s, e, Date.parse(b.start), Date.parse(b.end)));
+      const busy = (o: PlanVisit) => o.id !== v.id && overlaps(s, e, Date.parse(o.start), Date.parse(o.end));
+      const clash = plan.visits.some((o) => busy(o) && (o.technicianId === v.technicianId || o.bikeId === v.bikeId));
+      const booked = plan.bookings.some((b) => (b.bikeId === v.bikeId || (!b.bikeId && b.modelId === modelId)) && overlaps(s, e, Date.parse(b.start), Date.parse(b.end)));
       // The technician's working day must hold the whole visit at that time (shifts end at 16:30).
-      const endsBy = startOfDayInZone(day, ZONE) + (16 * 60 + 30) * MINUTE;
-      return !clash && !booked && e <= endsBy;
+      const endsBy = startOfDayInZone(c.date, ZONE) + (16 * 60 + 30) * MINUTE;
+      if (clash || booked || e > endsBy) return [];
+      const bayId = bays.find((bay) => !plan.visits.some((o) => busy(o) && o.bayId === bay));
+      return bayId ? [{ day: c.date, bayId }] : [];
     });
 }
 
@@ -92,11 +96,16 @@ describe.skipIf(!hasBrowser)('the manager moves a visit on the plan board', () =
       expect(plan!.visits.length, 'the demo plan has visits').toBeGreaterThan(0);
 
       // A visit with two free days ahead of it: the bike is then hired out on the first.
-      const candidates = plan!.visits.filter((v) => todayInZone(ZONE, new Date(v.start)) > todayInZone(ZONE, new Date())).map((v) => ({ v, days: freeDays(plan!, v) }));
+      const bikes = (await fetchJson(page, `/api/bikes?siteId=${sites[0].id}`)).items as { id: string; model: { id: string } }[];
+      const modelOf = new Map(bikes.map((b) => [b.id, b.model.id]));
+      const candidates = plan!.visits
+        .filter((v) => !v.pinned && todayInZone(ZONE, new Date(v.start)) > todayInZone(ZONE, new Date()))
+        .map((v) => ({ v, days: freePlaces(plan!, v, modelOf.get(v.bikeId)!) }));
       const pick = candidates.find((c) => c.days.length >= 2);
-      expect(pick, 'a visit with two free days to move to').toBeDefined();
+      expect(pick, `a visit with two free days to move to; plan of ${plan!.plannedAt}, ${plan!.visits.length} visits: ${JSON.stringify(candidates.map((c) => [c.v.start, c.v.latestDate, c.days]))}`).toBeDefined();
       const { v } = pick!;
-      const [hiredDay, freeDay] = pick!.days;
+      const [hired, free] = pick!.days;
+      const [hiredDay, freeDay] = [hired.day, free.day];
       const hire = await send(page, 'POST', '/api/bookings', {
         siteId: v.siteId,
         kind: 'hire',
@@ -117,7 +126,7 @@ describe.skipIf(!hasBrowser)('the manager moves a visit on the plan board', () =
       await block.waitFor();
 
       // Onto the hired day: refused in words, the block goes back, nothing saved.
-      await drag(page, block, page.getByTestId(`cell-${v.bayId}|${hiredDay}`));
+      await drag(page, block, page.getByTestId(`cell-${hired.bayId}|${hiredDay}`));
       const refusal = page.getByTestId('move-refusal');
       await refusal.waitFor();
       expect(await refusal.innerText()).toMatch(/on hire 'Estuary day ride'/);
@@ -126,8 +135,8 @@ describe.skipIf(!hasBrowser)('the manager moves a visit on the plan board', () =
       expect([unchanged.start, unchanged.sequence]).toEqual([visit.start, visit.sequence]);
 
       // Onto a free day: saved, the block stands there.
-      await drag(page, page.getByTestId(`visit-${v.id}`), page.getByTestId(`cell-${v.bayId}|${freeDay}`));
-      await page.getByTestId(`cell-${v.bayId}|${freeDay}`).getByTestId(`visit-${v.id}`).waitFor();
+      await drag(page, page.getByTestId(`visit-${v.id}`), page.getByTestId(`cell-${free.bayId}|${freeDay}`));
+      await page.getByTestId(`cell-${free.bayId}|${freeDay}`).getByTestId(`visit-${v.id}`).waitFor();
       const newStart = sameTimeOn(v.start, freeDay);
       const moved = ((await fetchJson(page, `/api/plan?site=${v.siteId}`)) as PlanAnswer).visits.find((x) => x.id === v.id)!;
       expect([moved.start, moved.sequence, moved.pinned]).toEqual([newStart, visit.sequence + 1, true]);
