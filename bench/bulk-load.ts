@@ -37,6 +37,7 @@ const UNNEST_BATCH = 20_000;
 /** PostgreSQL: one `INSERT … SELECT FROM unnest($1::type[], …)` per batch, a column per array parameter. */
 export async function postgresTarget(url: string): Promise<BulkTarget> {
   const client = new pg.Client({ connectionString: url });
+  client.on('error', (err) => console.warn(`[bulk-load] connection ended: ${err.message}`));
   await client.connect();
   return {
     exec: async (sql) => {

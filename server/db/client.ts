@@ -80,6 +80,9 @@ export const PGLITE_SHARED_BUFFERS = '32MB';
 export async function openDatabase(opts: OpenOptions): Promise<Database> {
   if (opts.databaseUrl) {
     const pool = new pg.Pool({ connectionString: opts.databaseUrl, max: 10 });
+    // An idle connection the server ends (restart, administrator command) is dropped from the pool
+    // and replaced on the next query; without a listener it would end the process.
+    pool.on('error', (err) => console.warn(`[db] idle connection ended: ${err.message}`));
     const db = drizzlePg({ client: pool, schema }) as unknown as Db;
     if (opts.migrate !== false) await migratePg(db as never, { migrationsFolder: MIGRATIONS_FOLDER });
     return { db, kind: 'postgres', pool, close: () => pool.end() };

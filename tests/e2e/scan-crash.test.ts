@@ -122,6 +122,7 @@ describe('a due scan killed halfway', () => {
 
   it.skipIf(!process.env.TEST_DATABASE_URL)('on PostgreSQL: the same, with the run held by a row lock that dies with the process', async () => {
     const admin = new pg.Client({ connectionString: process.env.TEST_DATABASE_URL });
+    admin.on('error', () => {});
     await admin.connect();
     const name = `lashline_crash_${process.pid}`;
     const urlOf = (db: string) => {
