@@ -1,4 +1,4 @@
-import { createRng, hashSeed, type Rng } from '../server/demo/prng';
+import { createRng, hashSeed, type Rng } from '../shared/domain/prng';
 import type { ModelRow, ServiceItemRow } from '../server/demo/scenario';
 import type { Cell, TableKey } from './tables';
 import { measureValves, makeValves } from './valve-model';

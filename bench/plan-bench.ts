@@ -1,7 +1,7 @@
 import { asc, eq, inArray, sql } from 'drizzle-orm';
 import type { Database } from '../server/db/client';
 import { bays, bikes, bookings, siteHours, sites, userSites, users, workPatterns } from '../server/db/schema';
-import { createRng } from '../server/demo/prng';
+import { createRng } from '../shared/domain/prng';
 import { runPlan } from '../server/services/workshop-plan';
 import { loadPlanInput } from '../server/services/workshop-plan-inputs';
 import { dueWithinHorizon, planWorkshop, greedyPlan, planObjective } from '../shared/domain/planner';

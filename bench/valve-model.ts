@@ -1,4 +1,4 @@
-import type { Rng } from '../server/demo/prng';
+import type { Rng } from '../shared/domain/prng';
 import type { ModelRow } from '../server/demo/scenario';
 import { round10, serviceValve, type SimulatedReading, type WearingValve } from '../server/demo/valve-wear';
 

@@ -16,6 +16,7 @@ import {
   uniqueIndex,
   uuid,
 } from 'drizzle-orm/pg-core';
+import { MOVEMENT_KINDS, ORDER_STATES, PART_FAMILIES, PART_UNITS } from '../../shared/domain/parts';
 
 // Clearances and shim sizes are stored in whole micrometres so that the
 // arithmetic on them is exact (0.30 − 0.22 mm must be 80 µm, not 79.999…).
@@ -357,17 +358,104 @@ export const shimStock = pgTable(
   (t) => [primaryKey({ columns: [t.siteId, t.sizeUm, t.condition] })],
 );
 
-export const stockMovements = pgTable('stock_movements', {
+/**
+ * One ledger for a site's stock: a movement is either of shims (size and condition) or of a
+ * catalogue part. For a part, the sum of its movements at a site is its on-hand figure.
+ */
+export const stockMovements = pgTable(
+  'stock_movements',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+    sizeUm: integer('size_um'),
+    condition: text('condition', { enum: ['new', 'used'] }),
+    partId: uuid('part_id').references(() => parts.id, { onDelete: 'cascade' }),
+    kind: text('kind', { enum: MOVEMENT_KINDS }),
+    delta: doublePrecision('delta').notNull(),
+    reason: text('reason').notNull(),
+    taskId: uuid('task_id'),
+    purchaseOrderId: uuid('purchase_order_id'),
+    by: uuid('by').references(() => users.id),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    index('stock_movements_part').on(t.siteId, t.partId, t.at),
+    check('stock_movements_shim_or_part', sql`(${t.partId} is null) = (${t.sizeUm} is not null)`),
+  ],
+);
+
+// ── Parts, their stock and orders ────────────────────────────────────────────
+
+export const suppliers = pgTable('suppliers', {
   id: uuid('id').primaryKey().defaultRandom(),
-  siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
-  sizeUm: integer('size_um').notNull(),
-  condition: text('condition', { enum: ['new', 'used'] }).notNull(),
-  delta: integer('delta').notNull(),
-  reason: text('reason').notNull(),
-  taskId: uuid('task_id'),
-  by: uuid('by').references(() => users.id),
-  at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+  name: text('name').notNull().unique(),
+  email: text('email').notNull(),
+  createdAt: createdAt(),
 });
+
+export const parts = pgTable('parts', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  partNumber: text('part_number').notNull().unique(),
+  name: text('name').notNull(),
+  family: text('family', { enum: PART_FAMILIES }).notNull(),
+  unit: text('unit', { enum: PART_UNITS }).notNull(),
+  packSize: doublePrecision('pack_size').notNull().default(1),
+  supplierId: uuid('supplier_id').references(() => suppliers.id),
+  leadTimeDays: integer('lead_time_days').notNull().default(7),
+  unitCostPence: integer('unit_cost_pence').notNull().default(0),
+  createdAt: createdAt(),
+});
+
+/** What one service of an item uses: `share` is the part of services that need it (pads at one inspection in four). */
+export const serviceItemParts = pgTable(
+  'service_item_parts',
+  {
+    serviceItemId: uuid('service_item_id').notNull().references(() => serviceItems.id, { onDelete: 'cascade' }),
+    partId: uuid('part_id').notNull().references(() => parts.id, { onDelete: 'cascade' }),
+    quantity: doublePrecision('quantity').notNull(),
+    share: doublePrecision('share').notNull().default(1),
+  },
+  (t) => [primaryKey({ columns: [t.serviceItemId, t.partId] })],
+);
+
+export const partStock = pgTable(
+  'part_stock',
+  {
+    siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+    partId: uuid('part_id').notNull().references(() => parts.id, { onDelete: 'cascade' }),
+    onHand: doublePrecision('on_hand').notNull().default(0),
+    minimum: doublePrecision('minimum').notNull().default(0),
+  },
+  (t) => [primaryKey({ columns: [t.siteId, t.partId] }), check('part_stock_not_negative', sql`${t.onHand} >= 0`)],
+);
+
+export const purchaseOrders = pgTable(
+  'purchase_orders',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    number: integer('number').notNull().unique(),
+    siteId: uuid('site_id').notNull().references(() => sites.id, { onDelete: 'cascade' }),
+    supplierId: uuid('supplier_id').notNull().references(() => suppliers.id),
+    status: text('status', { enum: ORDER_STATES }).notNull().default('draft'),
+    note: text('note'),
+    createdBy: uuid('created_by').references(() => users.id),
+    createdAt: createdAt(),
+    sentAt: timestamp('sent_at', { withTimezone: true }),
+    receivedAt: timestamp('received_at', { withTimezone: true }),
+  },
+  (t) => [index('purchase_orders_site').on(t.siteId, t.status)],
+);
+
+export const purchaseOrderLines = pgTable(
+  'purchase_order_lines',
+  {
+    orderId: uuid('order_id').notNull().references(() => purchaseOrders.id, { onDelete: 'cascade' }),
+    partId: uuid('part_id').notNull().references(() => parts.id),
+    quantity: doublePrecision('quantity').notNull(),
+    received: doublePrecision('received').notNull().default(0),
+  },
+  (t) => [primaryKey({ columns: [t.orderId, t.partId] })],
+);
 
 // ── Readings with limits, attachments ────────────────────────────────────────
 

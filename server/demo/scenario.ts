@@ -2,7 +2,7 @@ import type {
   bikeModels, bikes, defects, odometerReadings, serviceItems, serviceRecords, shimStock, sites, userSites, users,
   valveChecks, valveReadings,
 } from '../db/schema';
-import { createRng, type Rng } from './prng';
+import { createRng, type Rng } from '../../shared/domain/prng';
 import { round10, serviceValve, type Side, type WearingValve } from './valve-wear';
 
 /**
