@@ -32,6 +32,7 @@ import { attachmentRoutes } from './routes/attachments';
 import { capacityRoutes } from './routes/capacity';
 import { bookingRoutes } from './routes/bookings';
 import { workshopPlanRoutes } from './routes/workshop-plan';
+import { partRoutes } from './routes/parts';
 import type { BlobStore } from './storage/types';
 import { createMemoryBlobStore } from './storage/memory';
 import type { JobDeps } from '../jobs/types';
@@ -165,6 +166,7 @@ export function createApp(deps: AppDeps): Express {
   api.use('/', capacityRoutes(ctx));
   api.use('/', bookingRoutes(ctx));
   api.use('/plan', workshopPlanRoutes(ctx));
+  api.use('/', partRoutes(ctx));
   api.use(apiNotFound);
 
   app.use('/api', api);

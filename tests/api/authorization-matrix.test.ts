@@ -103,6 +103,11 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
   'GET /api/plan/next-visits': ALL,
   'GET /api/plan/settings': ['manager', 'admin'],
   'PUT /api/plan/settings': ['manager', 'admin'],
+  'GET /api/parts': ['technician', 'manager', 'admin'],
+  'GET /api/stock': ['technician', 'manager', 'admin'],
+  'POST /api/stock/movements': ['technician', 'manager'],
+  'PUT /api/stock/minimum': ['manager'],
+  'GET /api/forecast': ['technician', 'manager', 'admin'],
 };
 
 let t: TestContext;

@@ -1,0 +1,45 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import type { AppContext } from '../app';
+import { currentUser, requireRole } from '../middleware/auth';
+import { validate } from '../middleware/validate';
+import { IdSchema } from '../../shared/schemas/common';
+import {
+  ForecastQuerySchema, SiteParamQuerySchema, StockMovementCreateSchema, type ForecastQuery, type StockMovementCreate,
+} from '../../shared/schemas/parts';
+import { forecastFor, listParts, recordMovement, setPartMinimum, stockView } from '../services/parts';
+
+const STOCK_STAFF = ['technician', 'manager', 'admin'] as const;
+const MinimumSchema = z.object({
+  siteId: IdSchema,
+  partId: IdSchema,
+  minimum: z.number({ message: 'Type the minimum as a number.' }).finite().min(0, 'A minimum cannot be negative.').max(100_000, 'That minimum is larger than any shelf.'),
+});
+
+export function partRoutes(ctx: AppContext) {
+  const r = Router();
+  const db = ctx.database.db;
+
+  r.get('/parts', requireRole(...STOCK_STAFF), async (_req, res) => {
+    res.json({ items: await listParts(db) });
+  });
+
+  r.get('/stock', requireRole(...STOCK_STAFF), validate({ query: SiteParamQuerySchema }), async (req, res) => {
+    res.json(await stockView(db, currentUser(req), (req.valid.query as { site: string }).site));
+  });
+
+  r.post('/stock/movements', requireRole('technician', 'manager'), validate({ body: StockMovementCreateSchema }), async (req, res) => {
+    res.status(201).json(await recordMovement(db, currentUser(req), req.valid.body as StockMovementCreate, ctx.now()));
+  });
+
+  r.put('/stock/minimum', requireRole('manager'), validate({ body: MinimumSchema }), async (req, res) => {
+    const b = req.valid.body as z.infer<typeof MinimumSchema>;
+    res.json(await setPartMinimum(db, currentUser(req), b.siteId, b.partId, b.minimum));
+  });
+
+  r.get('/forecast', requireRole(...STOCK_STAFF), validate({ query: ForecastQuerySchema }), async (req, res) => {
+    const q = req.valid.query as ForecastQuery;
+    res.json(await forecastFor(db, currentUser(req), q.site, q.weeks, ctx.now()));
+  });
+  return r;
+}

@@ -1,0 +1,240 @@
+import { and, asc, desc, eq, gte, inArray, ne, sql } from 'drizzle-orm';
+import type { Db, DbOrTx } from '../db/client';
+import {
+  bikeModels, bikes, dueStates, odometerReadings, partStock, parts, purchaseOrderLines, purchaseOrders, serviceItemParts, serviceItems,
+  serviceTasks, sites, stockMovements, suppliers, users, visitTasks, visits,
+} from '../db/schema';
+import { addDaysIso, todayInZone } from '../../shared/domain/dates';
+import { canSeeSite } from '../../shared/domain/policies';
+import { judgeMovement, roundQty, suggestedOrder, type MovementKind, type PartUnit } from '../../shared/domain/parts';
+import {
+  dailyDistances, needWithin, runsOutDay, runsOutWeek, simulatePartUse, weeklyNeed, type ForecastBikeInput, type ForecastItemInput,
+} from '../../shared/domain/parts-forecast';
+import type { SessionUser } from '../../shared/schemas/auth';
+import type { Forecast, Part, StockLine, StockMovementCreate, StockView } from '../../shared/schemas/parts';
+import { audit } from '../audit';
+import { badRequest, notFound } from '../http-error';
+
+/** Orders whose goods are still to come count as "on order". */
+const OPEN_ORDER_STATES = ['sent', 'part-received'] as const;
+
+export async function listParts(db: DbOrTx): Promise<Part[]> {
+  const rows = await db
+    .select({ p: parts, supplier: { id: suppliers.id, name: suppliers.name } })
+    .from(parts)
+    .leftJoin(suppliers, eq(suppliers.id, parts.supplierId))
+    .orderBy(asc(parts.family), asc(parts.name));
+  const uses = await db
+    .select({ partId: serviceItemParts.partId, model: bikeModels.name, item: serviceItems.name, quantity: serviceItemParts.quantity, share: serviceItemParts.share })
+    .from(serviceItemParts)
+    .innerJoin(serviceItems, eq(serviceItems.id, serviceItemParts.serviceItemId))
+    .innerJoin(bikeModels, eq(bikeModels.id, serviceItems.modelId))
+    .orderBy(asc(bikeModels.name), asc(serviceItems.name));
+  return rows.map(({ p, supplier }) => ({
+    id: p.id, partNumber: p.partNumber, name: p.name, family: p.family, unit: p.unit, packSize: p.packSize, leadTimeDays: p.leadTimeDays,
+    unitCostPence: p.unitCostPence, supplier: supplier?.id ? { id: supplier.id, name: supplier.name } : null,
+    usedBy: uses.filter((u) => u.partId === p.id).map(({ model, item, quantity, share }) => ({ model, item, quantity, share })),
+  }));
+}
+
+function siteOf(user: SessionUser, siteId: string) {
+  if (!canSeeSite(user, siteId)) throw notFound('That site');
+}
+
+/** Every catalogue part with its stock at a site (nothing booked yet reads as zero) and what is on order. */
+export async function stockLines(db: DbOrTx, siteId: string): Promise<StockLine[]> {
+  const rows = await db
+    .select({ p: parts, onHand: partStock.onHand, minimum: partStock.minimum })
+    .from(parts)
+    .leftJoin(partStock, and(eq(partStock.partId, parts.id), eq(partStock.siteId, siteId)))
+    .orderBy(asc(parts.family), asc(parts.name));
+  const onOrder = await db
+    .select({ partId: purchaseOrderLines.partId, open: sql<number>`sum(${purchaseOrderLines.quantity} - ${purchaseOrderLines.received})`.mapWith(Number) })
+    .from(purchaseOrderLines)
+    .innerJoin(purchaseOrders, eq(purchaseOrders.id, purchaseOrderLines.orderId))
+    .where(and(eq(purchaseOrders.siteId, siteId), inArray(purchaseOrders.status, OPEN_ORDER_STATES)))
+    .groupBy(purchaseOrderLines.partId);
+  const ordered = new Map(onOrder.map((o) => [o.partId, o.open]));
+  return rows.map(({ p, onHand, minimum }) => ({
+    partId: p.id, partNumber: p.partNumber, name: p.name, family: p.family, unit: p.unit,
+    onHand: roundQty(onHand ?? 0), minimum: minimum ?? 0, onOrder: roundQty(ordered.get(p.id) ?? 0),
+  }));
+}
+
+export async function stockView(db: DbOrTx, user: SessionUser, siteId: string): Promise<StockView> {
+  siteOf(user, siteId);
+  const items = await stockLines(db, siteId);
+  const recent = await db
+    .select({ id: stockMovements.id, partId: stockMovements.partId, kind: stockMovements.kind, delta: stockMovements.delta, reason: stockMovements.reason, by: users.name, at: stockMovements.at })
+    .from(stockMovements)
+    .leftJoin(users, eq(users.id, stockMovements.by))
+    .where(and(eq(stockMovements.siteId, siteId), sql`${stockMovements.partId} is not null`))
+    .orderBy(desc(stockMovements.at))
+    .limit(30);
+  return {
+    siteId,
+    items,
+    recent: recent.map((m) => ({ id: m.id, partId: m.partId!, kind: m.kind ?? 'stock-take', delta: m.delta, reason: m.reason, by: m.by ?? null, at: m.at.toISOString() })),
+  };
+}
+
+const KIND_WORDS: Record<MovementKind, string> = {
+  received: 'Received',
+  used: 'Used',
+  'stock-take': 'Stock-take',
+  'transfer-in': 'Transfer in',
+  'transfer-out': 'Transfer out',
+  'write-off': 'Written off',
+};
+
+export interface LedgerWrite {
+  siteId: string;
+  partId: string;
+  kind: MovementKind;
+  quantity: number;
+  unit: PartUnit;
+  reason: string;
+  taskId?: string | null;
+  purchaseOrderId?: string | null;
+  by: string | null;
+  at: Date;
+}
+
+/**
+ * Books one movement inside the caller's transaction: the stock row is locked, the movement
+ * judged against what is on hand, then the ledger row, the stock figure and the audit entry are
+ * written together. A refusal throws before anything is written.
+ */
+export async function bookMovement(tx: DbOrTx, m: LedgerWrite): Promise<number> {
+  const [part] = await tx.select().from(parts).where(eq(parts.id, m.partId));
+  if (!part) throw notFound('That part');
+  await tx.insert(partStock).values({ siteId: m.siteId, partId: m.partId }).onConflictDoNothing();
+  const [row] = await tx
+    .select({ onHand: partStock.onHand })
+    .from(partStock)
+    .where(and(eq(partStock.siteId, m.siteId), eq(partStock.partId, m.partId)))
+    .for('update');
+  const verdict = judgeMovement({ name: part.name, unit: part.unit }, row.onHand, { kind: m.kind, quantity: m.quantity, unit: m.unit });
+  if (!verdict.ok) throw badRequest(verdict.error, [{ path: 'quantity', message: verdict.error }]);
+  const onHand = roundQty(row.onHand + verdict.delta);
+  await tx.insert(stockMovements).values({
+    siteId: m.siteId, partId: m.partId, kind: m.kind, delta: verdict.delta, reason: m.reason || KIND_WORDS[m.kind],
+    taskId: m.taskId ?? null, purchaseOrderId: m.purchaseOrderId ?? null, by: m.by, at: m.at,
+  });
+  await tx.update(partStock).set({ onHand }).where(and(eq(partStock.siteId, m.siteId), eq(partStock.partId, m.partId)));
+  await audit(tx, { userId: m.by, action: `stock-${m.kind}`, entity: 'part-stock', entityId: `${m.siteId}:${m.partId}`, changes: { quantity: m.quantity, unit: m.unit, delta: verdict.delta, onHand, reason: m.reason } });
+  return onHand;
+}
+
+/** A movement typed on the stock screen; a transfer books both sides in one transaction. */
+export async function recordMovement(db: Db, user: SessionUser, b: StockMovementCreate, now: Date): Promise<StockView> {
+  siteOf(user, b.siteId);
+  if (b.otherSiteId) siteOf(user, b.otherSiteId);
+  await db.transaction(async (tx) => {
+    const base = { partId: b.partId, quantity: b.quantity, unit: b.unit, by: user.id, at: now };
+    if (b.kind === 'transfer-out' || b.kind === 'transfer-in') {
+      const [other] = await tx.select({ name: sites.name }).from(sites).where(eq(sites.id, b.otherSiteId!));
+      if (!other) throw notFound('The other site');
+      const [from, to] = b.kind === 'transfer-out' ? [b.siteId, b.otherSiteId!] : [b.otherSiteId!, b.siteId];
+      const note = b.note ? ` (${b.note})` : '';
+      await bookMovement(tx, { ...base, siteId: from, kind: 'transfer-out', reason: `Transfer to another site${note}` });
+      await bookMovement(tx, { ...base, siteId: to, kind: 'transfer-in', reason: `Transfer from another site${note}` });
+    } else {
+      await bookMovement(tx, { ...base, siteId: b.siteId, kind: b.kind, reason: b.note ? `${KIND_WORDS[b.kind]}: ${b.note}` : KIND_WORDS[b.kind] });
+    }
+  });
+  return stockView(db, user, b.siteId);
+}
+
+export async function setPartMinimum(db: Db, user: SessionUser, siteId: string, partId: string, minimum: number): Promise<StockView> {
+  siteOf(user, siteId);
+  await db.transaction(async (tx) => {
+    const [part] = await tx.select({ id: parts.id }).from(parts).where(eq(parts.id, partId));
+    if (!part) throw notFound('That part');
+    await tx.insert(partStock).values({ siteId, partId, minimum }).onConflictDoUpdate({ target: [partStock.siteId, partStock.partId], set: { minimum } });
+    await audit(tx, { userId: user.id, action: 'stock-minimum', entity: 'part-stock', entityId: `${siteId}:${partId}`, changes: { minimum } });
+  });
+  return stockView(db, user, siteId);
+}
+
+/** The inputs of a site's forecast: its bikes, their due states and recent riding, and the plan. */
+async function forecastInputs(db: DbOrTx, siteId: string, today: string): Promise<ForecastBikeInput[]> {
+  const uses = await db
+    .select({ serviceItemId: serviceItemParts.serviceItemId, partId: serviceItemParts.partId, quantity: serviceItemParts.quantity, share: serviceItemParts.share })
+    .from(serviceItemParts);
+  if (!uses.length) return [];
+  const usesByItem = new Map<string, { partId: string; quantity: number; share: number }[]>();
+  for (const u of uses) usesByItem.set(u.serviceItemId, [...(usesByItem.get(u.serviceItemId) ?? []), { partId: u.partId, quantity: u.quantity, share: u.share }]);
+  const itemIds = [...usesByItem.keys()];
+  const fleet = await db
+    .select({ id: bikes.id })
+    .from(bikes)
+    .where(and(eq(bikes.siteId, siteId), ne(bikes.status, 'retired')));
+  if (!fleet.length) return [];
+  const bikeIds = fleet.map((b) => b.id);
+  const states = await db
+    .select({ bikeId: dueStates.bikeId, serviceItemId: dueStates.serviceItemId, dueAtKm: dueStates.dueAtKm, dueByDate: dueStates.dueByDate, currentKm: dueStates.currentKm, everyKm: serviceItems.everyKm, everyMonths: serviceItems.everyMonths })
+    .from(dueStates)
+    .innerJoin(serviceItems, eq(serviceItems.id, dueStates.serviceItemId))
+    .where(and(inArray(dueStates.bikeId, bikeIds), inArray(dueStates.serviceItemId, itemIds)));
+  const since = addDaysIso(today, -90);
+  const readings = await db
+    .select({ bikeId: odometerReadings.bikeId, date: odometerReadings.date, odometerKm: odometerReadings.odometerKm })
+    .from(odometerReadings)
+    .where(and(inArray(odometerReadings.bikeId, bikeIds), gte(odometerReadings.date, since)))
+    .orderBy(asc(odometerReadings.bikeId), asc(odometerReadings.date));
+  // Open work: a planned visit's day, else the task's due date, is when its parts go.
+  const open = await db
+    .select({ bikeId: serviceTasks.bikeId, serviceItemId: serviceTasks.serviceItemId, dueDate: serviceTasks.dueDate, visitStart: visits.startAt })
+    .from(serviceTasks)
+    .leftJoin(visitTasks, eq(visitTasks.taskId, serviceTasks.id))
+    .leftJoin(visits, and(eq(visits.id, visitTasks.visitId), eq(visits.status, 'planned')))
+    .where(and(inArray(serviceTasks.bikeId, bikeIds), inArray(serviceTasks.status, ['open', 'in_progress']), inArray(serviceTasks.serviceItemId, itemIds)));
+  const planned = new Map<string, string>();
+  for (const o of open) {
+    const day = o.visitStart ? o.visitStart.toISOString().slice(0, 10) : o.dueDate && o.dueDate > today ? o.dueDate : today;
+    planned.set(`${o.bikeId}|${o.serviceItemId}`, day < today ? today : day);
+  }
+  const readingsOf = new Map<string, { date: string; odometerKm: number }[]>();
+  for (const r of readings) readingsOf.set(r.bikeId, [...(readingsOf.get(r.bikeId) ?? []), { date: r.date, odometerKm: r.odometerKm }]);
+  const byBike = new Map<string, ForecastBikeInput>();
+  for (const s of states) {
+    let bike = byBike.get(s.bikeId);
+    if (!bike) {
+      bike = { bikeId: s.bikeId, siteId, currentKm: s.currentKm, dailyKm: dailyDistances(readingsOf.get(s.bikeId) ?? []), items: [] };
+      byBike.set(s.bikeId, bike);
+    }
+    (bike.items as ForecastItemInput[]).push({
+      serviceItemId: s.serviceItemId, everyKm: s.everyKm, everyMonths: s.everyMonths, nextDueKm: s.dueAtKm, nextDueDate: s.dueByDate,
+      plannedDate: planned.get(`${s.bikeId}|${s.serviceItemId}`) ?? null, parts: usesByItem.get(s.serviceItemId) ?? [],
+    });
+  }
+  return [...byBike.values()].sort((a, b) => (a.bikeId < b.bikeId ? -1 : 1));
+}
+
+export async function forecastFor(db: DbOrTx, user: SessionUser, siteId: string, weeks: number, now: Date): Promise<Forecast> {
+  siteOf(user, siteId);
+  const [site] = await db.select({ timeZone: sites.timeZone }).from(sites).where(eq(sites.id, siteId));
+  if (!site) throw notFound('That site');
+  const today = todayInZone(site.timeZone, now);
+  const inputs = await forecastInputs(db, siteId, today);
+  const sim = simulatePartUse(inputs, { today, weeks, seed: siteId });
+  const stock = await stockLines(db, siteId);
+  const catalogue = new Map((await db.select({ id: parts.id, leadTimeDays: parts.leadTimeDays, packSize: parts.packSize }).from(parts)).map((p) => [p.id, p]));
+  const lineOf = new Map(sim.lines.map((l) => [l.partId, l]));
+  const out: Forecast['parts'] = [];
+  for (const s of stock) {
+    const line = lineOf.get(s.partId);
+    const p = catalogue.get(s.partId)!;
+    const need = line ? weeklyNeed(sim, line) : sim.weekStarts.map((weekStart) => ({ weekStart, p50: 0, p90: 0, cumulativeP50: 0, cumulativeP90: 0 }));
+    const leadTimeNeed = line ? needWithin(sim, line, p.leadTimeDays) : 0;
+    const outDay = line ? runsOutDay(sim, line, s.onHand + s.onOrder) : null;
+    out.push({
+      partId: s.partId, siteId, partNumber: s.partNumber, name: s.name, unit: s.unit, onHand: s.onHand, onOrder: s.onOrder, minimum: s.minimum,
+      leadTimeDays: p.leadTimeDays, weeks: need, runsOutWeek: runsOutWeek(need, s.onHand),
+      shortBeforeDelivery: outDay !== null && outDay < p.leadTimeDays,
+      suggested: { ...suggestedOrder({ leadTimeNeed, minimum: s.minimum, onHand: s.onHand, onOrder: s.onOrder, packSize: p.packSize }), leadTimeNeed },
+    });
+  }
+  return { siteId, today, runs: sim.runs, parts: out };
+}

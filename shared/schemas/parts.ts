@@ -1,0 +1,99 @@
+import { z } from 'zod';
+import { IdSchema, MAX_TEXT } from './common';
+import { MOVEMENT_KINDS, PART_FAMILIES, PART_UNITS } from '../domain/parts';
+
+export const PartUnitSchema = z.enum(PART_UNITS, { message: `Use one of the units: ${PART_UNITS.join(', ')}.` });
+
+export const PartSchema = z.object({
+  id: IdSchema,
+  partNumber: z.string(),
+  name: z.string(),
+  family: z.enum(PART_FAMILIES),
+  unit: PartUnitSchema,
+  packSize: z.number(),
+  leadTimeDays: z.number().int(),
+  unitCostPence: z.number().int(),
+  supplier: z.object({ id: IdSchema, name: z.string() }).nullable(),
+  /** Which services use it and how much, for the catalogue screen. */
+  usedBy: z.array(z.object({ model: z.string(), item: z.string(), quantity: z.number(), share: z.number() })),
+});
+export type Part = z.infer<typeof PartSchema>;
+export const PartListSchema = z.object({ items: z.array(PartSchema) });
+
+export const SiteParamQuerySchema = z.object({ site: IdSchema });
+
+export const StockLineSchema = z.object({
+  partId: IdSchema,
+  partNumber: z.string(),
+  name: z.string(),
+  family: z.enum(PART_FAMILIES),
+  unit: PartUnitSchema,
+  onHand: z.number(),
+  minimum: z.number(),
+  onOrder: z.number(),
+});
+export type StockLine = z.infer<typeof StockLineSchema>;
+
+export const StockMovementRowSchema = z.object({
+  id: IdSchema,
+  partId: IdSchema,
+  kind: z.enum(MOVEMENT_KINDS),
+  delta: z.number(),
+  reason: z.string(),
+  by: z.string().nullable(),
+  at: z.string(),
+});
+
+export const StockViewSchema = z.object({
+  siteId: IdSchema,
+  items: z.array(StockLineSchema),
+  recent: z.array(StockMovementRowSchema),
+});
+export type StockView = z.infer<typeof StockViewSchema>;
+
+const Quantity = z.number({ message: 'Type the quantity as a number.' }).finite().max(1_000_000, 'That is more than any shelf holds: check the quantity.');
+
+export const StockMovementCreateSchema = z
+  .object({
+    siteId: IdSchema,
+    partId: IdSchema,
+    kind: z.enum(MOVEMENT_KINDS, { message: `Choose what happened: ${MOVEMENT_KINDS.join(', ')}.` }),
+    /** Positive; for a stock-take it is the count on the shelf. */
+    quantity: Quantity,
+    unit: PartUnitSchema,
+    note: z.string().trim().max(MAX_TEXT).optional(),
+    /** The other site of a transfer. */
+    otherSiteId: IdSchema.optional(),
+  })
+  .refine((m) => !(m.kind === 'transfer-out' || m.kind === 'transfer-in') || (m.otherSiteId && m.otherSiteId !== m.siteId), {
+    message: 'A transfer needs the other site, and it must differ from this one.',
+    path: ['otherSiteId'],
+  });
+export type StockMovementCreate = z.infer<typeof StockMovementCreateSchema>;
+
+export const ForecastQuerySchema = z.object({
+  site: IdSchema,
+  weeks: z.coerce.number({ message: 'Give the weeks as a whole number.' }).int('Give the weeks as a whole number.').min(1, 'At least one week.').max(26, 'At most 26 weeks ahead.').default(8),
+});
+export type ForecastQuery = z.infer<typeof ForecastQuerySchema>;
+
+export const ForecastPartSchema = z.object({
+  partId: IdSchema,
+  siteId: IdSchema,
+  partNumber: z.string(),
+  name: z.string(),
+  unit: PartUnitSchema,
+  onHand: z.number(),
+  onOrder: z.number(),
+  minimum: z.number(),
+  leadTimeDays: z.number(),
+  weeks: z.array(z.object({ weekStart: z.string(), p50: z.number(), p90: z.number(), cumulativeP50: z.number(), cumulativeP90: z.number() })),
+  /** Monday of the week the cautious need passes what is on hand; null when it lasts. */
+  runsOutWeek: z.string().nullable(),
+  /** True when it runs out before an order placed today could arrive. */
+  shortBeforeDelivery: z.boolean(),
+  suggested: z.object({ quantity: z.number(), packs: z.number(), leadTimeNeed: z.number() }),
+});
+export type ForecastPart = z.infer<typeof ForecastPartSchema>;
+export const ForecastSchema = z.object({ siteId: IdSchema, today: z.string(), runs: z.number(), parts: z.array(ForecastPartSchema) });
+export type Forecast = z.infer<typeof ForecastSchema>;
