@@ -10,6 +10,7 @@ import { createApp } from './app';
 import { sessionSecret } from './secrets';
 import { seedDemo } from './demo/seed';
 import { needsSetup } from './services/accounts';
+import { replanIdle } from './services/replan';
 import type { MailCatcher } from './mail/catcher';
 import { createTransport } from './mail/transport';
 import { startScheduler } from '../jobs';
@@ -95,6 +96,7 @@ async function main() {
     await scheduler?.stop();
     await new Promise<void>((r) => httpServer.close(() => r()));
     await scheduler?.catchUp.catch(() => {});
+    await replanIdle(database.db);
     await catcher?.close();
     await database.close();
     unlock();

@@ -20,6 +20,8 @@ export function setReplanner(fn: Replanner) {
 interface Queue {
   running: boolean;
   pending?: { change: PlanChange; now: Date; done: (() => void)[] };
+  /** Called once nothing is running or waiting. */
+  idle: (() => void)[];
 }
 const queues = new WeakMap<Db, Queue>();
 
@@ -43,7 +45,7 @@ const sameSites = (a: PlanChange, b: PlanChange) => a.siteIds.length === b.siteI
 export function replanAfter(db: Db, change: PlanChange, now: Date): Promise<void> {
   if (!replanner || !change.siteIds.length) return Promise.resolve();
   let q = queues.get(db);
-  if (!q) queues.set(db, (q = { running: false }));
+  if (!q) queues.set(db, (q = { running: false, idle: [] }));
   const queue = q;
   return new Promise<void>((resolve) => {
     queue.pending = queue.pending
@@ -66,4 +68,15 @@ async function drain(db: Db, queue: Queue) {
     for (const d of done) d();
   }
   queue.running = false;
+  for (const d of queue.idle.splice(0)) d();
+}
+
+/**
+ * Settles once no re-plan runs or waits for this database: for a shutdown that must not close the
+ * database under a re-plan, and for tests that read after a write whose re-plan was not awaited.
+ */
+export function replanIdle(db: Db): Promise<void> {
+  const queue = queues.get(db);
+  if (!queue || (!queue.running && !queue.pending)) return Promise.resolve();
+  return new Promise<void>((resolve) => queue.idle.push(resolve));
 }

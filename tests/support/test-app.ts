@@ -6,6 +6,7 @@ import { openDatabase, type Database } from '../../server/db/client';
 import { testConfig, type Config } from '../../server/config';
 import { startMailCatcher, type MailCatcher } from '../../server/mail/catcher';
 import { createTransport } from '../../server/mail/transport';
+import { replanIdle } from '../../server/services/replan';
 
 let template: Promise<Blob> | undefined;
 
@@ -45,6 +46,8 @@ export interface TestContext {
   app: Express;
   database: Database;
   catcher?: MailCatcher;
+  /** Settles once the re-plans that writes started in the background have finished. */
+  settled(): Promise<void>;
   close(): Promise<void>;
 }
 
@@ -73,7 +76,9 @@ export async function testApp(opts: TestAppOptions = {}): Promise<TestContext> {
     app,
     database,
     catcher,
+    settled: () => replanIdle(database.db),
     close: async () => {
+      await replanIdle(database.db);
       await catcher?.close();
       await database.close();
     },
