@@ -12,6 +12,7 @@ import { hashPassword } from '../auth/passwords';
 import { buildScenario } from './scenario';
 import { seedCapacity } from './capacity-demo';
 import { seedBookings } from './bookings-demo';
+import { seedParts } from './parts-demo';
 
 type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 
@@ -52,6 +53,7 @@ export async function seedDemo(db: Db, opts: { password: string; today?: string 
     await insertAll(tx, shimStock, s.shimStock);
     await seedCapacity(tx, s);
     await seedBookings(tx, s);
+    await seedParts(tx, s);
   });
   const n = (x: number, one: string, many = `${one}s`) => `${x.toLocaleString('en-GB')} ${x === 1 ? one : many}`;
   return [
