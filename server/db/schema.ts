@@ -18,6 +18,13 @@ import {
 } from 'drizzle-orm/pg-core';
 import { MOVEMENT_KINDS, ORDER_STATES, PART_FAMILIES, PART_UNITS } from '../../shared/domain/parts';
 
+/** A file sent with an e-mail: its name, media type and text content. */
+export interface MailAttachment {
+  filename: string;
+  contentType: string;
+  content: string;
+}
+
 // Clearances and shim sizes are stored in whole micrometres so that the
 // arithmetic on them is exact (0.30 − 0.22 mm must be 80 µm, not 79.999…).
 
@@ -293,6 +300,8 @@ export const outbox = pgTable(
     subject: text('subject').notNull(),
     text: text('text').notNull(),
     html: text('html').notNull(),
+    /** Files sent with the message (a purchase order's CSV): small text files only. */
+    attachments: jsonb('attachments').$type<MailAttachment[]>(),
     status: text('status', { enum: ['pending', 'sent', 'failed'] }).notNull().default('pending'),
     attempts: integer('attempts').notNull().default(0),
     nextAttemptAt: timestamp('next_attempt_at', { withTimezone: true }).notNull().defaultNow(),

@@ -1,7 +1,7 @@
 import { and, eq, lte, sql } from 'drizzle-orm';
 import type { Transporter } from 'nodemailer';
 import type { Db } from '../db/client';
-import { outbox } from '../db/schema';
+import { outbox, type MailAttachment } from '../db/schema';
 
 export interface OutgoingMail {
   dedupeKey: string;
@@ -9,6 +9,7 @@ export interface OutgoingMail {
   subject: string;
   text: string;
   html: string;
+  attachments?: MailAttachment[];
 }
 
 export const MAX_ATTEMPTS = 6;
@@ -48,7 +49,7 @@ export async function deliverOutbox(db: Db, transport: Transporter, from: string
       .returning();
     if (!m) continue;
     try {
-      await transport.sendMail({ from, to: m.to, subject: m.subject, text: m.text, html: m.html, messageId: `<${m.id}@lashline>` });
+      await transport.sendMail({ from, to: m.to, subject: m.subject, text: m.text, html: m.html, messageId: `<${m.id}@lashline>`, attachments: m.attachments ?? undefined });
       await db.update(outbox).set({ status: 'sent', sentAt: now, lastError: null }).where(eq(outbox.id, id));
       report.sent++;
     } catch (e) {

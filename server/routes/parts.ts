@@ -5,11 +5,14 @@ import { currentUser, requireRole } from '../middleware/auth';
 import { validate } from '../middleware/validate';
 import { IdSchema } from '../../shared/schemas/common';
 import {
-  ForecastQuerySchema, SiteParamQuerySchema, StockMovementCreateSchema, type ForecastQuery, type StockMovementCreate,
+  DraftFromForecastSchema, ForecastQuerySchema, PurchaseOrderCreateSchema, PurchaseOrderListQuerySchema, PurchaseOrderReceiveSchema,
+  SiteParamQuerySchema, StockMovementCreateSchema, type ForecastQuery, type PurchaseOrderCreate, type PurchaseOrderReceive, type StockMovementCreate,
 } from '../../shared/schemas/parts';
 import { forecastFor, listParts, recordMovement, setPartMinimum, stockView } from '../services/parts';
+import { cancelOrder, createOrder, draftsFromForecast, listOrders, receiveOrder, sendOrder } from '../services/purchase-orders';
 
 const STOCK_STAFF = ['technician', 'manager', 'admin'] as const;
+const OrderParams = z.object({ id: IdSchema });
 const MinimumSchema = z.object({
   siteId: IdSchema,
   partId: IdSchema,
@@ -40,6 +43,32 @@ export function partRoutes(ctx: AppContext) {
   r.get('/forecast', requireRole(...STOCK_STAFF), validate({ query: ForecastQuerySchema }), async (req, res) => {
     const q = req.valid.query as ForecastQuery;
     res.json(await forecastFor(db, currentUser(req), q.site, q.weeks, ctx.now()));
+  });
+
+  r.get('/purchase-orders', requireRole(...STOCK_STAFF), validate({ query: PurchaseOrderListQuerySchema }), async (req, res) => {
+    const q = req.valid.query as z.infer<typeof PurchaseOrderListQuerySchema>;
+    res.json({ items: await listOrders(db, currentUser(req), q.site, q.status) });
+  });
+
+  r.post('/purchase-orders', requireRole('manager'), validate({ body: PurchaseOrderCreateSchema }), async (req, res) => {
+    res.status(201).json({ order: await createOrder(db, currentUser(req), req.valid.body as PurchaseOrderCreate, ctx.now()) });
+  });
+
+  r.post('/purchase-orders/draft-from-forecast', requireRole('manager'), validate({ body: DraftFromForecastSchema }), async (req, res) => {
+    const b = req.valid.body as z.infer<typeof DraftFromForecastSchema>;
+    res.status(201).json({ items: await draftsFromForecast(db, currentUser(req), b.siteId, ctx.now()) });
+  });
+
+  r.post('/purchase-orders/:id/send', requireRole('manager'), validate({ params: OrderParams }), async (req, res) => {
+    res.json({ order: await sendOrder(db, currentUser(req), (req.valid.params as { id: string }).id, ctx.now()) });
+  });
+
+  r.post('/purchase-orders/:id/cancel', requireRole('manager'), validate({ params: OrderParams }), async (req, res) => {
+    res.json({ order: await cancelOrder(db, currentUser(req), (req.valid.params as { id: string }).id) });
+  });
+
+  r.post('/purchase-orders/:id/receive', requireRole('technician', 'manager'), validate({ params: OrderParams, body: PurchaseOrderReceiveSchema }), async (req, res) => {
+    res.json({ order: await receiveOrder(db, currentUser(req), (req.valid.params as { id: string }).id, req.valid.body as PurchaseOrderReceive, ctx.now()) });
   });
   return r;
 }

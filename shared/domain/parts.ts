@@ -146,3 +146,17 @@ export function judgeReceipt(
   const complete = lines.every((l) => roundQty(l.received + (receipt.find((r) => r.partId === l.partId)?.quantity ?? 0)) >= roundQty(l.quantity));
   return { ok: true, state: complete ? 'received' : 'part-received' };
 }
+
+/** "PO-0007": how an order's number is written on screens, e-mails and files. */
+export const orderLabel = (n: number) => `PO-${String(n).padStart(4, '0')}`;
+
+export const ORDER_CSV_COLUMNS = ['line', 'part_number', 'description', 'quantity', 'unit', 'pack_size', 'packs', 'unit_cost_gbp', 'line_total_gbp'] as const;
+
+/** The rows of an order's CSV for the supplier, one per line; money in pounds with two decimals. */
+export function orderCsvRows(lines: readonly { partNumber: string; name: string; quantity: number; unit: PartUnit; packSize: number; unitCostPence: number }[]): string[][] {
+  const pounds = (pence: number) => (Math.round(pence) / 100).toFixed(2);
+  return lines.map((l, i) => [
+    String(i + 1), l.partNumber, l.name, String(roundQty(l.quantity)), l.unit, String(l.packSize),
+    l.packSize > 0 ? String(Math.ceil(roundQty(l.quantity / l.packSize) - 1e-9)) : '', pounds(l.unitCostPence), pounds(l.unitCostPence * l.quantity),
+  ]);
+}

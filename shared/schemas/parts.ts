@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { IdSchema, MAX_TEXT } from './common';
-import { MOVEMENT_KINDS, PART_FAMILIES, PART_UNITS } from '../domain/parts';
+import { MOVEMENT_KINDS, ORDER_STATES, PART_FAMILIES, PART_UNITS } from '../domain/parts';
 
 export const PartUnitSchema = z.enum(PART_UNITS, { message: `Use one of the units: ${PART_UNITS.join(', ')}.` });
 
@@ -97,3 +97,62 @@ export const ForecastPartSchema = z.object({
 export type ForecastPart = z.infer<typeof ForecastPartSchema>;
 export const ForecastSchema = z.object({ siteId: IdSchema, today: z.string(), runs: z.number(), parts: z.array(ForecastPartSchema) });
 export type Forecast = z.infer<typeof ForecastSchema>;
+
+// ── Purchase orders ──────────────────────────────────────────────────────────
+
+export const OrderLineSchema = z.object({
+  partId: IdSchema,
+  partNumber: z.string(),
+  name: z.string(),
+  unit: PartUnitSchema,
+  packSize: z.number(),
+  quantity: z.number(),
+  received: z.number(),
+  unitCostPence: z.number().int(),
+});
+
+export const PurchaseOrderSchema = z.object({
+  id: IdSchema,
+  /** Shown as "PO-0007". */
+  number: z.number().int(),
+  siteId: IdSchema,
+  supplier: z.object({ id: IdSchema, name: z.string(), email: z.string() }),
+  status: z.enum(ORDER_STATES),
+  note: z.string().nullable(),
+  createdAt: z.string(),
+  sentAt: z.string().nullable(),
+  receivedAt: z.string().nullable(),
+  lines: z.array(OrderLineSchema),
+});
+export type PurchaseOrder = z.infer<typeof PurchaseOrderSchema>;
+export const PurchaseOrderListSchema = z.object({ items: z.array(PurchaseOrderSchema) });
+
+export const PurchaseOrderListQuerySchema = z.object({
+  site: IdSchema,
+  status: z.enum(ORDER_STATES, { message: `Filter by one of: ${ORDER_STATES.join(', ')}.` }).optional(),
+});
+
+const OrderQuantity = z
+  .number({ message: 'Type the quantity as a number.' })
+  .finite()
+  .positive('Order a quantity above zero, or leave the part off the order.')
+  .max(100_000, 'That is more than any order needs: check the quantity.');
+
+export const PurchaseOrderCreateSchema = z
+  .object({
+    siteId: IdSchema,
+    supplierId: IdSchema,
+    lines: z.array(z.object({ partId: IdSchema, quantity: OrderQuantity })).min(1, 'Add at least one part to the order.').max(200, 'At most 200 lines on one order.'),
+    note: z.string().trim().max(MAX_TEXT).optional(),
+  })
+  .refine((o) => new Set(o.lines.map((l) => l.partId)).size === o.lines.length, { message: 'A part is listed twice: give one line per part.', path: ['lines'] });
+export type PurchaseOrderCreate = z.infer<typeof PurchaseOrderCreateSchema>;
+
+export const PurchaseOrderReceiveSchema = z.object({
+  lines: z.array(z.object({ partId: IdSchema, quantity: z.number({ message: 'Type what arrived as a number.' }).finite() })).min(1, 'Type what arrived for at least one line.').max(200),
+  note: z.string().trim().max(MAX_TEXT).optional(),
+});
+export type PurchaseOrderReceive = z.infer<typeof PurchaseOrderReceiveSchema>;
+
+/** Turns the cautious suggestions of a site into one draft per supplier. */
+export const DraftFromForecastSchema = z.object({ siteId: IdSchema });

@@ -108,6 +108,12 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
   'POST /api/stock/movements': ['technician', 'manager'],
   'PUT /api/stock/minimum': ['manager'],
   'GET /api/forecast': ['technician', 'manager', 'admin'],
+  'GET /api/purchase-orders': ['technician', 'manager', 'admin'],
+  'POST /api/purchase-orders': ['manager'],
+  'POST /api/purchase-orders/draft-from-forecast': ['manager'],
+  'POST /api/purchase-orders/:id/send': ['manager'],
+  'POST /api/purchase-orders/:id/cancel': ['manager'],
+  'POST /api/purchase-orders/:id/receive': ['technician', 'manager'],
 };
 
 let t: TestContext;
