@@ -9,7 +9,7 @@ import {
   SiteParamQuerySchema, StockMovementCreateSchema, type ForecastQuery, type PurchaseOrderCreate, type PurchaseOrderReceive, type StockMovementCreate,
 } from '../../shared/schemas/parts';
 import { forecastFor, listParts, recordMovement, setPartMinimum, stockView } from '../services/parts';
-import { cancelOrder, createOrder, draftsFromForecast, listOrders, receiveOrder, sendOrder } from '../services/purchase-orders';
+import { cancelOrder, createOrder, draftsFromForecast, listOrders, receiveOrder, sendOrder, shortages } from '../services/purchase-orders';
 
 const STOCK_STAFF = ['technician', 'manager', 'admin'] as const;
 const OrderParams = z.object({ id: IdSchema });
@@ -29,6 +29,10 @@ export function partRoutes(ctx: AppContext) {
 
   r.get('/stock', requireRole(...STOCK_STAFF), validate({ query: SiteParamQuerySchema }), async (req, res) => {
     res.json(await stockView(db, currentUser(req), (req.valid.query as { site: string }).site));
+  });
+
+  r.get('/stock/shortages', requireRole(...STOCK_STAFF), async (req, res) => {
+    res.json({ items: await shortages(db, currentUser(req), ctx.now()) });
   });
 
   r.post('/stock/movements', requireRole('technician', 'manager'), validate({ body: StockMovementCreateSchema }), async (req, res) => {

@@ -5,7 +5,7 @@ import { parts, purchaseOrderLines, purchaseOrders, sites, suppliers, users } fr
 import { canSeeSite } from '../../shared/domain/policies';
 import { ORDER_CSV_COLUMNS, formatQty, judgeReceipt, orderCsvRows, orderLabel, roundQty, type OrderState } from '../../shared/domain/parts';
 import type { SessionUser } from '../../shared/schemas/auth';
-import type { PurchaseOrder, PurchaseOrderCreate, PurchaseOrderReceive } from '../../shared/schemas/parts';
+import type { PurchaseOrder, PurchaseOrderCreate, PurchaseOrderReceive, Shortage } from '../../shared/schemas/parts';
 import { audit } from '../audit';
 import { badRequest, conflict, notFound } from '../http-error';
 import { enqueue } from '../mail/outbox';
@@ -196,4 +196,28 @@ export async function receiveOrder(db: Db, user: SessionUser, id: string, b: Pur
     await audit(tx, { userId: user.id, action: 'order-received', entity: 'purchase-order', entityId: id, changes: { lines: b.lines, state: verdict.state } });
   });
   return orderById(db, user, id);
+}
+
+/** Across the caller's sites: the parts that run out before an order placed today could arrive, with the orders that hold them. */
+export async function shortages(db: DbOrTx, user: SessionUser, now: Date): Promise<Shortage[]> {
+  const mine = await db.select({ id: sites.id, name: sites.name }).from(sites).where(inArray(sites.id, user.siteIds.length ? user.siteIds : ['00000000-0000-0000-0000-000000000000'])).orderBy(asc(sites.name));
+  const out: Shortage[] = [];
+  for (const site of mine) {
+    const f = await forecastFor(db, user, site.id, 8, now);
+    const short = f.parts.filter((p) => p.shortBeforeDelivery);
+    if (!short.length) continue;
+    const open = await db
+      .select({ id: purchaseOrders.id, number: purchaseOrders.number, status: purchaseOrders.status, partId: purchaseOrderLines.partId })
+      .from(purchaseOrders)
+      .innerJoin(purchaseOrderLines, eq(purchaseOrderLines.orderId, purchaseOrders.id))
+      .where(and(eq(purchaseOrders.siteId, site.id), inArray(purchaseOrders.status, ['draft', 'sent', 'part-received']), inArray(purchaseOrderLines.partId, short.map((p) => p.partId))))
+      .orderBy(asc(purchaseOrders.number));
+    for (const p of short)
+      out.push({
+        siteId: site.id, siteName: site.name, partId: p.partId, partNumber: p.partNumber, name: p.name, unit: p.unit, onHand: p.onHand, onOrder: p.onOrder,
+        leadTimeDays: p.leadTimeDays, runsOutWeek: p.runsOutWeek, suggested: p.suggested.quantity,
+        orders: open.filter((o) => o.partId === p.partId).map(({ id, number, status }) => ({ id, number, status })),
+      });
+  }
+  return out;
 }

@@ -156,3 +156,22 @@ export type PurchaseOrderReceive = z.infer<typeof PurchaseOrderReceiveSchema>;
 
 /** Turns the cautious suggestions of a site into one draft per supplier. */
 export const DraftFromForecastSchema = z.object({ siteId: IdSchema });
+
+/** A part that runs out before an order placed today could arrive, for the manager's week board. */
+export const ShortageSchema = z.object({
+  siteId: IdSchema,
+  siteName: z.string(),
+  partId: IdSchema,
+  partNumber: z.string(),
+  name: z.string(),
+  unit: PartUnitSchema,
+  onHand: z.number(),
+  onOrder: z.number(),
+  leadTimeDays: z.number(),
+  runsOutWeek: z.string().nullable(),
+  suggested: z.number(),
+  /** Orders not yet received that hold the part: a draft still to send, or one on its way. */
+  orders: z.array(z.object({ id: IdSchema, number: z.number().int(), status: z.enum(ORDER_STATES) })),
+});
+export type Shortage = z.infer<typeof ShortageSchema>;
+export const ShortageListSchema = z.object({ items: z.array(ShortageSchema) });

@@ -105,6 +105,7 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
   'PUT /api/plan/settings': ['manager', 'admin'],
   'GET /api/parts': ['technician', 'manager', 'admin'],
   'GET /api/stock': ['technician', 'manager', 'admin'],
+  'GET /api/stock/shortages': ['technician', 'manager', 'admin'],
   'POST /api/stock/movements': ['technician', 'manager'],
   'PUT /api/stock/minimum': ['manager'],
   'GET /api/forecast': ['technician', 'manager', 'admin'],

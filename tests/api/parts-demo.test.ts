@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { agent, manualClock, testApp, type Agent, type TestContext } from '../support/test-app';
 import { seedDemo } from '../../server/demo/seed';
-import type { Forecast, PurchaseOrder, StockView } from '../../shared/schemas/parts';
+import type { Forecast, PurchaseOrder, Shortage, StockView } from '../../shared/schemas/parts';
 
 // The demo as a parts person meets it on a Friday morning in December.
 const clock = manualClock('2026-12-04T09:00:00Z');
@@ -43,5 +43,13 @@ describe('the demo’s parts shelf', () => {
     const orders = (await manager.get(`/api/purchase-orders?site=${quay}&status=draft`)).body.items as PurchaseOrder[];
     const drafted = new Set(orders.flatMap((o) => o.lines.map((l) => l.partId)));
     expect(short.some((p) => drafted.has(p.partId))).toBe(true);
+  });
+
+  it('puts that part on the week board’s shortage list, with the draft that holds it', async () => {
+    const res = await manager.get('/api/stock/shortages');
+    expect(res.status).toBe(200);
+    const filters = (res.body.items as Shortage[]).find((s) => s.siteId === quay && s.name === 'Oil filter, 250–400 cc');
+    expect(filters).toMatchObject({ siteName: 'Quay Street', onHand: 0, leadTimeDays: 7 });
+    expect(filters!.orders).toEqual([expect.objectContaining({ number: 1, status: 'draft' })]);
   });
 });
