@@ -27,6 +27,7 @@ const ENTRIES: readonly NavEntry[] = [
   { to: '/fleet', label: 'Fleet', roles: ['desk', 'technician', 'manager', 'admin'] },
   { to: '/valves', label: 'Valve trends', roles: ['manager'] },
   { to: '/stock', label: 'Shim stock', roles: ['technician', 'manager'] },
+  { to: '/parts', label: 'Parts and stock', roles: ['technician', 'manager'] },
   { to: '/plans', label: 'Models and plans', roles: ['manager', 'admin'] },
   { to: '/import', label: 'Import', roles: ['manager'] },
 ];

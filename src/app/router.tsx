@@ -48,6 +48,7 @@ const router = createBrowserRouter([
       { path: '/tasks/:id/valves', lazy: () => import('../features/valves/routes/valve-card').then((m) => ({ Component: m.ValveCardRoute })) },
       { path: '/valves', lazy: () => import('../features/valves/routes/fleet-valves').then((m) => ({ Component: m.FleetValvesRoute })) },
       { path: '/stock', lazy: () => import('../features/stock/routes/shim-stock').then((m) => ({ Component: m.ShimStockRoute })) },
+      { path: '/parts', lazy: () => import('../features/parts/routes/parts-page').then((m) => ({ Component: m.PartsRoute })) },
       { path: '/import', lazy: () => import('../features/imports/routes/import').then((m) => ({ Component: m.ImportRoute })) },
       { path: '/fleet/:id/record', lazy: () => import('../features/records/routes/service-record').then((m) => ({ Component: m.ServiceRecordRoute })) },
       { path: '/admin/backup', lazy: () => import('../features/imports/routes/backup').then((m) => ({ Component: m.BackupRoute })) },

@@ -18,4 +18,14 @@ describe('navigation per role', () => {
     expect(navFor('manager').find((n) => n.to === '/tasks')?.label).toBe('Tasks');
     expect(navFor('desk').map((n) => n.to)).toEqual(['/check-in', '/bookings', '/fleet']);
   });
+
+  it.each(['technician', 'manager'] as const)('shows %s parts and stock right after shim stock', (role) => {
+    const to = navFor(role).map((n) => n.to);
+    expect(to[to.indexOf('/stock') + 1]).toBe('/parts');
+    expect(navFor(role).find((n) => n.to === '/parts')?.label).toBe('Parts and stock');
+  });
+
+  it.each(['desk', 'admin'] as const)('keeps parts and stock off the %s menu', (role) => {
+    expect(navFor(role).some((n) => n.to === '/parts')).toBe(false);
+  });
 });
