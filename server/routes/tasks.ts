@@ -11,6 +11,7 @@ import { serviceTasks } from '../db/schema';
 import { recordReadings, templatesFor } from '../services/task-readings';
 import { CloseValveTaskSchema, ValveDraftSchema, type CloseValveTask } from '../../shared/schemas/valves';
 import { closeValveTask, saveDraft, valveCard } from '../services/valve-task';
+import { partsForItem } from '../services/parts';
 
 export function taskRoutes(ctx: AppContext) {
   const r = Router();
@@ -28,7 +29,7 @@ export function taskRoutes(ctx: AppContext) {
   r.get('/:id', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
     const task = await getTask(db, currentUser(req), id(req));
     if (!task) throw notFound('That task');
-    res.json({ task, readings: (await templatesFor(db, [task.itemId])).get(task.itemId) ?? [] });
+    res.json({ task, readings: (await templatesFor(db, [task.itemId])).get(task.itemId) ?? [], parts: await partsForItem(db, task.siteId, task.itemId) });
   });
 
   r.post('/:id/assign', requireRole('manager', 'admin'), validate({ params: IdParamsSchema, body: AssignSchema }), async (req, res) => {

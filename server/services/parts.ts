@@ -11,9 +11,9 @@ import {
   dailyDistances, needWithin, runsOutDay, runsOutWeek, simulatePartUse, weeklyNeed, type ForecastBikeInput, type ForecastItemInput,
 } from '../../shared/domain/parts-forecast';
 import type { SessionUser } from '../../shared/schemas/auth';
-import type { Forecast, Part, StockLine, StockMovementCreate, StockView } from '../../shared/schemas/parts';
+import type { Forecast, Part, PartsUsed, StockLine, StockMovementCreate, StockView, TaskPart } from '../../shared/schemas/parts';
 import { audit } from '../audit';
-import { badRequest, notFound } from '../http-error';
+import { HttpError, badRequest, notFound } from '../http-error';
 
 /** Orders whose goods are still to come count as "on order". */
 const OPEN_ORDER_STATES = ['sent', 'part-received'] as const;
@@ -124,6 +124,34 @@ export async function bookMovement(tx: DbOrTx, m: LedgerWrite): Promise<number> 
   await tx.update(partStock).set({ onHand }).where(and(eq(partStock.siteId, m.siteId), eq(partStock.partId, m.partId)));
   await audit(tx, { userId: m.by, action: `stock-${m.kind}`, entity: 'part-stock', entityId: `${m.siteId}:${m.partId}`, changes: { quantity: m.quantity, unit: m.unit, delta: verdict.delta, onHand, reason: m.reason } });
   return onHand;
+}
+
+/** The parts a service item takes, with what the site holds: the task card pre-fills those every service uses. */
+export async function partsForItem(db: DbOrTx, siteId: string, serviceItemId: string): Promise<TaskPart[]> {
+  const rows = await db
+    .select({ p: parts, quantity: serviceItemParts.quantity, share: serviceItemParts.share, onHand: partStock.onHand })
+    .from(serviceItemParts)
+    .innerJoin(parts, eq(parts.id, serviceItemParts.partId))
+    .leftJoin(partStock, and(eq(partStock.partId, parts.id), eq(partStock.siteId, siteId)))
+    .where(eq(serviceItemParts.serviceItemId, serviceItemId))
+    .orderBy(desc(serviceItemParts.share), asc(parts.name));
+  return rows.map(({ p, quantity, share, onHand }) => ({
+    partId: p.id, partNumber: p.partNumber, name: p.name, unit: p.unit, usual: roundQty(quantity), share, suggested: share >= 1 ? roundQty(quantity) : 0, onHand: roundQty(onHand ?? 0),
+  }));
+}
+
+/** Books what a closed task took from the shelf, in the closing transaction; a line the shelf cannot cover refuses the whole close. */
+export async function bookPartsUsed(tx: DbOrTx, o: { siteId: string; taskId: string; what: string; lines: PartsUsed; by: string; at: Date }) {
+  for (const l of o.lines) {
+    if (l.quantity === 0) continue;
+    try {
+      await bookMovement(tx, { siteId: o.siteId, partId: l.partId, kind: 'used', quantity: l.quantity, unit: l.unit, reason: `Used on ${o.what}`, taskId: o.taskId, by: o.by, at: o.at });
+    } catch (e) {
+      // The card shows the refusal beside the parts, and keeps everything typed.
+      if (e instanceof HttpError) throw badRequest(`${e.message} Change what was used, or book the delivery or a stock-take on the stock page first.`, [{ path: 'parts', message: e.message }]);
+      throw e;
+    }
+  }
 }
 
 /** A movement typed on the stock screen; a transfer books both sides in one transaction. */

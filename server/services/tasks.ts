@@ -12,6 +12,8 @@ import { HttpError, badRequest, conflict, notFound } from '../http-error';
 import { recomputeBike } from './due';
 import { replanAfter } from './replan';
 import { settleVisitsOfBike } from './workshop-plan';
+import { bookPartsUsed } from './parts';
+import type { PartsUsed } from '../../shared/schemas/parts';
 
 const assignee = alias(users, 'task_assignee');
 
@@ -125,6 +127,8 @@ export interface CloseInput {
   version: number;
   date?: string;
   notes?: string;
+  /** What the service took from the shelf. */
+  parts?: PartsUsed;
 }
 
 /**
@@ -149,6 +153,7 @@ export async function closeTask(db: Db, user: SessionUser, id: string, input: Cl
       .values({ bikeId: row.t.bikeId, serviceItemId: row.t.serviceItemId, date, odometerKm, taskId: id, doneBy: user.id, notes: input.notes ?? null })
       .returning({ id: serviceRecords.id });
     await extra?.(tx, { taskId: id, bikeId: row.t.bikeId, siteId: row.siteId, date, odometerKm, recordId: record.id });
+    if (input.parts?.length) await bookPartsUsed(tx, { siteId: row.siteId, taskId: id, what: `${bike.fleetNumber}, ${row.itemName}`, lines: input.parts, by: user.id, at: now });
     await tx.update(serviceTasks).set({ status: 'done', closedAt: now, closedBy: user.id, version: sql`${serviceTasks.version} + 1` }).where(eq(serviceTasks.id, id));
     // Other open tasks for the same item are met by this service.
     await tx

@@ -20,6 +20,33 @@ export const PartSchema = z.object({
 export type Part = z.infer<typeof PartSchema>;
 export const PartListSchema = z.object({ items: z.array(PartSchema) });
 
+/** What a service used from the shelf, as typed on the task card ("used 1.1 L"); zero leaves a part out. */
+export const PartsUsedSchema = z
+  .array(
+    z.object({
+      partId: IdSchema,
+      quantity: z.number({ message: 'Type what was used as a number.' }).finite().min(0, 'What was used cannot be negative.').max(1000, 'That is more than one service uses: check the quantity.'),
+      unit: PartUnitSchema,
+    }),
+  )
+  .max(40, 'At most 40 parts on one task.')
+  .refine((ls) => new Set(ls.map((l) => l.partId)).size === ls.length, { message: 'A part is listed twice: give one figure per part.' });
+export type PartsUsed = z.infer<typeof PartsUsedSchema>;
+
+/** A part the card offers: what the service usually takes, pre-filled when every service uses it. */
+export const TaskPartSchema = z.object({
+  partId: IdSchema,
+  partNumber: z.string(),
+  name: z.string(),
+  unit: PartUnitSchema,
+  usual: z.number(),
+  /** Share of services that use it (pads at a brake check: now and then). */
+  share: z.number(),
+  suggested: z.number(),
+  onHand: z.number(),
+});
+export type TaskPart = z.infer<typeof TaskPartSchema>;
+
 export const SiteParamQuerySchema = z.object({ site: IdSchema });
 
 export const StockLineSchema = z.object({

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { IdSchema, IsoDateSchema, MAX_TEXT } from './common';
 import { WorkRowSchema } from './work-row';
+import { PartsUsedSchema } from './parts';
 
 export const TASK_STATUSES = ['open', 'in_progress', 'done', 'cancelled'] as const;
 export const TASK_STATUS_LABELS: Record<(typeof TASK_STATUSES)[number], string> = {
@@ -48,6 +49,8 @@ export const CloseTaskSchema = z.object({
   notes: z.string().trim().max(MAX_TEXT).optional(),
   /** One value per reading the service item asks for. */
   readings: z.array(ReadingValueSchema).max(40).default([]),
+  /** Parts taken from the site's shelf for this service; booked as used in the same transaction. */
+  parts: PartsUsedSchema.optional(),
 });
 
 export const ReadingTemplateSchema = z.object({

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { IdSchema, IsoDateSchema, MAX_TEXT } from './common';
 import { TaskSchema } from './tasks';
+import { PartsUsedSchema } from './parts';
 
 const Mm = z.number().min(0).max(5);
 
@@ -59,6 +60,7 @@ export const CloseValveTaskSchema = z.object({
   readings: z.array(ValveReadingInputSchema).min(1, 'Record a reading for every valve.').max(64),
   /** A manager may sign off with a valve left outside its spec, saying why. */
   override: z.object({ reason: z.string().trim().min(10, 'Say in a sentence why the valve is left outside its spec.').max(MAX_TEXT) }).optional(),
+  parts: PartsUsedSchema.optional(),
 });
 export type CloseValveTask = z.infer<typeof CloseValveTaskSchema>;
 

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { agent, manualClock, testApp, type Agent, type TestContext } from '../support/test-app';
 import { PASSWORD, makeServiceItem, world } from '../support/factories';
-import { dueStates, odometerReadings, partStock, parts, serviceItemParts, stockMovements, suppliers } from '../../server/db/schema';
+import { dueStates, odometerReadings, partStock, parts, serviceItemParts, serviceTasks, stockMovements, suppliers } from '../../server/db/schema';
 import type { Forecast, StockView } from '../../shared/schemas/parts';
 
 // Thursday 3 December 2026, 09:00 in London.
@@ -129,5 +129,41 @@ describe('the forecast', () => {
     const res = await manager.get(`/api/forecast?site=${w.siteA.id}&weeks=99`);
     expect(res.status).toBe(400);
     expect(JSON.stringify(res.body)).toMatch(/At most 26 weeks/);
+  });
+});
+
+describe('closing a task uses its parts', () => {
+  it('offers the usual parts on the card, books what was typed as used on the task, and refuses more than the shelf holds, writing nothing', async () => {
+    const db = ctx.database.db;
+    const item = await makeServiceItem(db, w.model.id, { name: 'Oil and filter', category: 'oil', everyKm: 3000, everyMonths: 6 });
+    await db.insert(serviceItemParts).values([
+      { serviceItemId: item.id, partId: oilId, quantity: 1.2, share: 1 },
+      // Only now and then: offered at zero.
+      { serviceItemId: item.id, partId: filterId, quantity: 1, share: 0.5 },
+    ]);
+    const [task] = await db.insert(serviceTasks).values({ bikeId: w.bikeA.id, serviceItemId: item.id, cycleKey: 'parts-used' }).returning();
+    const card = await tech.get(`/api/tasks/${task.id}`);
+    expect(card.status).toBe(200);
+    const oilOnHand = lineOf(await stock(tech, w.siteA.id), oilId).onHand;
+    expect(card.body.parts).toEqual([
+      expect.objectContaining({ partId: oilId, usual: 1.2, share: 1, suggested: 1.2, onHand: oilOnHand, unit: 'litre' }),
+      expect.objectContaining({ partId: filterId, usual: 1, share: 0.5, suggested: 0, onHand: 0, unit: 'each' }),
+    ]);
+    // A filter the shelf does not have: the whole sign-off is refused in words, the task stays open, nothing is booked.
+    const movements = (await db.select().from(stockMovements)).length;
+    const refused = await tech.post(`/api/tasks/${task.id}/close`).send({ version: task.version, parts: [{ partId: oilId, quantity: 1.1, unit: 'litre' }, { partId: filterId, quantity: 1, unit: 'each' }] });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.message).toMatch(/Oil filter/);
+    expect(refused.body.error.message).toMatch(/stock-take/);
+    expect((await db.select().from(stockMovements)).length).toBe(movements);
+    expect((await tech.get(`/api/tasks/${task.id}`)).body.task.status).toBe('open');
+    // As the technician corrects it: 1.1 L of oil, no filter.
+    const closed = await tech.post(`/api/tasks/${task.id}/close`).send({ version: task.version, parts: [{ partId: oilId, quantity: 1.1, unit: 'litre' }, { partId: filterId, quantity: 0, unit: 'each' }] });
+    expect(closed.status).toBe(200);
+    expect(lineOf(await stock(tech, w.siteA.id), oilId).onHand).toBe(Math.round((oilOnHand - 1.1) * 1000) / 1000);
+    const booked = await db.select().from(stockMovements).where(eq(stockMovements.taskId, task.id));
+    expect(booked).toHaveLength(1);
+    expect(booked[0]).toMatchObject({ kind: 'used', delta: -1.1, partId: oilId, siteId: w.siteA.id });
+    expect(booked[0].reason).toMatch(/^Used on T-\d+, Oil and filter$/);
   });
 });

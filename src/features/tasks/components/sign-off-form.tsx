@@ -12,6 +12,7 @@ import { ReadingInput } from './reading-input';
 import { judge, toReadingValue } from './reading-judge';
 import { GroundingSummary } from './grounding-summary';
 import { taskDetailQuery, useSignOff } from './task-readings';
+import { PartsUsed, partsToSend } from './parts-used';
 
 interface Props {
   task: Task;
@@ -23,10 +24,16 @@ interface Props {
 export function SignOffForm({ task, onCancel, onReload }: Props) {
   const today = todayIso();
   const detail = useQuery(taskDetailQuery(task.id));
-  const [draft, setDraft, clearDraft] = useDraft(`sign-off.${task.id}`, { notes: '', date: '', values: {} as Record<string, string> });
+  const [draft, setDraft, clearDraft] = useDraft(`sign-off.${task.id}`, { notes: '', date: '', values: {} as Record<string, string>, parts: {} as Record<string, string> });
   const [errors, setErrors] = useState<Record<string, string>>({});
   const close = useSignOff();
   const templates = detail.data?.readings ?? [];
+  const parts = detail.data?.parts ?? [];
+  const setPart = (partId: string, raw: string) => {
+    setDraft({ ...draft, parts: { ...(draft.parts ?? {}), [partId]: raw } });
+    setErrors(({ [`parts.${partId}`]: _gone, ...rest }) => rest);
+    if (close.error) close.reset();
+  };
   const grounding = templates.filter((t) => judge(t, draft.values[t.id]).state === 'grounds');
   const setValue = (id: string, raw: string) => {
     setDraft({ ...draft, values: { ...draft.values, [id]: raw } });
@@ -43,13 +50,18 @@ export function SignOffForm({ task, onCancel, onReload }: Props) {
       if (s === 'empty') problems[`readings.${t.id}`] = t.kind === 'check' ? 'Choose done or not done.' : 'Record a value.';
       if (s === 'bad') problems[`readings.${t.id}`] = 'Type a number.';
     }
+    const used = partsToSend(parts, draft.parts ?? {});
+    for (const id of used.bad) problems[`parts.${id}`] = 'Type what was used as a number, 0 or more.';
     const parsed = CloseTaskSchema.safeParse({
       version: task.version,
       date: draft.date && draft.date !== today ? draft.date : undefined,
       notes: draft.notes.trim() || undefined,
       readings: Object.keys(problems).length ? [] : templates.map((t) => toReadingValue(t, draft.values[t.id] ?? '')),
+      parts: used.bad.length ? undefined : used.lines,
     });
-    if (!parsed.success) for (const i of parsed.error.issues) problems[i.path[0] === 'readings' ? `readings.${templates[Number(i.path[1])]?.id}` : i.path.join('.')] ??= i.message;
+    const pathOf = (path: PropertyKey[]) =>
+      path[0] === 'readings' ? `readings.${templates[Number(path[1])]?.id}` : path[0] === 'parts' ? (path.length > 1 ? `parts.${parts[Number(path[1])]?.partId}` : 'parts') : path.join('.');
+    if (!parsed.success) for (const i of parsed.error.issues) problems[pathOf(i.path)] ??= i.message;
     setErrors(problems);
     if (!parsed.success || Object.keys(problems).length) return;
     close.mutate(
@@ -94,6 +106,7 @@ export function SignOffForm({ task, onCancel, onReload }: Props) {
           </fieldset>
         )
       )}
+      {!detail.isPending && !detail.error && <PartsUsed taskId={task.id} parts={parts} values={draft.parts ?? {}} onChange={setPart} error={fieldError} />}
       <div>
         <label htmlFor={`notes-${task.id}`} className="mb-1 block text-lg font-semibold">Notes (optional)</label>
         <textarea

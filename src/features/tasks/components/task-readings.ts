@@ -3,11 +3,12 @@ import { z } from 'zod';
 import { api } from '../../../lib/api-client';
 import { ReadingTemplateSchema, TaskSchema, type CloseTask } from '../../../../shared/schemas/tasks';
 import { taskQueries } from '../api';
+import { TaskPartSchema } from '../../../../shared/schemas/parts';
 
-const TaskDetailSchema = z.object({ task: TaskSchema, readings: z.array(ReadingTemplateSchema) });
+const TaskDetailSchema = z.object({ task: TaskSchema, readings: z.array(ReadingTemplateSchema), parts: z.array(TaskPartSchema).default([]) });
 const ClosedSchema = z.object({ task: TaskSchema, grounded: z.boolean() });
 
-/** The task with the readings its service item asks for at sign-off. */
+/** The task with the readings its service item asks for at sign-off, and the parts it usually takes. */
 export const taskDetailQuery = (id: string) =>
   queryOptions({ queryKey: [...taskQueries.all(), 'detail', id], queryFn: () => api.get(`/api/tasks/${id}`, TaskDetailSchema) });
 
@@ -21,6 +22,8 @@ export function useSignOff() {
       void qc.invalidateQueries({ queryKey: taskQueries.all() });
       void qc.invalidateQueries({ queryKey: ['bikes'] });
       void qc.invalidateQueries({ queryKey: ['due'] });
+      // What it used came off the shelf.
+      void qc.invalidateQueries({ queryKey: ['parts'] });
     },
   });
 }
