@@ -2,7 +2,7 @@ import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query
 import { z } from 'zod';
 import { api } from '../../lib/api-client';
 import {
-  ForecastSchema, PartListSchema, PurchaseOrderListSchema, PurchaseOrderSchema, StockViewSchema,
+  ForecastSchema, PartListSchema, PurchaseOrderListSchema, PurchaseOrderSchema, ShortageListSchema, StockViewSchema,
   type PurchaseOrderCreate, type PurchaseOrderReceive, type StockMovementCreate, type StockView,
 } from '../../../shared/schemas/parts';
 
@@ -19,6 +19,8 @@ export const partQueries = {
       queryFn: () => api.get('/api/forecast', ForecastSchema, { site: siteId, weeks: FORECAST_WEEKS }),
       enabled: !!siteId,
     }),
+  /** Across the signed-in person's sites: what runs out before an order placed today could arrive. */
+  shortages: () => queryOptions({ queryKey: [...partQueries.all(), 'shortages'], queryFn: () => api.get('/api/stock/shortages', ShortageListSchema) }),
   orders: (siteId: string) =>
     queryOptions({ queryKey: [...partQueries.all(), 'orders', siteId], queryFn: () => api.get('/api/purchase-orders', PurchaseOrderListSchema, { site: siteId }), enabled: !!siteId }),
 };

@@ -1,5 +1,5 @@
 import { format } from 'date-fns';
-import { formatQty, type MovementKind, type OrderState, type PartFamily, type PartUnit } from '../../../shared/domain/parts';
+import { formatQty, orderLabel, type MovementKind, type OrderState, type PartFamily, type PartUnit } from '../../../shared/domain/parts';
 import type { PurchaseOrder } from '../../../shared/schemas/parts';
 import type { Tone } from '../../components/ui/tone-badge';
 
@@ -24,7 +24,7 @@ export const ORDER_WORDS: Record<OrderState, { label: string; tone: Tone; icon: 
   cancelled: { label: 'Cancelled', tone: 'neutral', icon: '✕' },
 };
 
-export const orderNumber = (n: number) => `PO-${String(n).padStart(4, '0')}`;
+export const orderNumber = orderLabel;
 
 const money = new Intl.NumberFormat('en-GB', { style: 'currency', currency: 'GBP', minimumFractionDigits: 2, maximumFractionDigits: 2 });
 export const formatPence = (pence: number) => money.format(pence / 100);
