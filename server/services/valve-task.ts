@@ -14,6 +14,7 @@ import { getBike } from './bikes';
 import { closeTask, getTask } from './tasks';
 import { readingsForBikes } from './valve-history';
 import { moveStock, stockAt, takeShim } from './shim-stock';
+import { partsForItem } from './parts';
 
 async function modelOf(db: Db | Tx, bikeId: string) {
   const [row] = await db.select({ m: bikeModels }).from(bikes).innerJoin(bikeModels, eq(bikeModels.id, bikes.modelId)).where(eq(bikes.id, bikeId));
@@ -40,6 +41,7 @@ export async function valveCard(db: Db, user: SessionUser, taskId: string): Prom
     }),
     shimSizesMm: sizes,
     stock: await stockAt(db, task.siteId),
+    parts: await partsForItem(db, task.siteId, task.itemId),
     draft: row?.draft ?? null,
   };
 }

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { IdSchema, IsoDateSchema, MAX_TEXT } from './common';
 import { TaskSchema } from './tasks';
-import { PartsUsedSchema } from './parts';
+import { PartsUsedSchema, TaskPartSchema } from './parts';
 
 const Mm = z.number().min(0).max(5);
 
@@ -31,6 +31,8 @@ export const ValveCardSchema = z.object({
   shimSizesMm: z.array(z.number()),
   stock: z.array(ShimStockLineSchema),
   draft: z.unknown().nullable(),
+  /** The parts a valve check usually takes (a cover gasket now and then), for the sign-off. */
+  parts: z.array(TaskPartSchema).default([]),
 });
 export type ValveCard = z.infer<typeof ValveCardSchema>;
 

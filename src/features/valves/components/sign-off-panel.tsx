@@ -2,6 +2,7 @@ import { Button } from '../../../components/ui/button';
 import { TextField } from '../../../components/ui/field';
 import { TextAreaField } from '../../../components/ui/text-area-field';
 import { todayIso } from '../../../lib/format';
+import type { ReactNode } from 'react';
 import type { SignOffErrors } from '../sign-off-errors';
 
 interface Props {
@@ -22,6 +23,8 @@ interface Props {
   disabled: boolean;
   onSubmit: () => void;
   onReload: () => void;
+  /** What the check took from the shelf, editable. */
+  parts?: ReactNode;
 }
 
 export function SignOffPanel(p: Props) {
@@ -44,6 +47,7 @@ export function SignOffPanel(p: Props) {
       {p.isManager && p.outside.length > 0 && (
         <TextAreaField label="Why the valve is left outside its spec" value={p.reason} onChange={(e) => p.onReason(e.target.value)} error={field('override.reason')} placeholder="e.g. seat work booked for Monday; bike stays grounded until then" />
       )}
+      {p.parts}
       <TextAreaField label="Notes (optional)" value={p.notes} onChange={(e) => p.onNotes(e.target.value)} error={field('notes')} placeholder="e.g. cam chain tensioner checked" className="text-lg" />
       <TextField label="Done on" type="date" max={today} value={p.date || today} onChange={(e) => p.onDate(e.target.value === today ? '' : e.target.value)} error={field('date')} className="max-w-xs text-lg" />
       {p.errors?.stale ? (

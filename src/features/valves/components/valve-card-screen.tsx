@@ -17,6 +17,8 @@ import { CardToolbar } from './card-toolbar';
 import { Cautions } from './cautions';
 import { ShimPlanPanel } from './shim-plan-panel';
 import { SignOffPanel } from './sign-off-panel';
+import { PartsUsed, partsToSend } from '../../tasks/components/parts-used';
+import { useDraft } from '../../../lib/use-draft';
 import { SignedOff } from './signed-off';
 import { ValveRow } from './valve-row';
 
@@ -31,6 +33,7 @@ export function ValveCardScreen({ card }: { card: ValveCard }) {
   const [errors, setErrors] = useState<SignOffErrors | null>(null);
   const [clientErrors, setClientErrors] = useState<Record<string, string>>({});
   const [done, setDone] = useState<Task | null>(null);
+  const [usedParts, setUsedParts, clearUsedParts] = useDraft(`valve-parts.${card.task.id}`, {} as Record<string, string>);
   const series = useMemo(() => bladeSeries(draft.gauge), [draft.gauge]);
   const readings = useMemo(
     () => new Map(draft.entries.map((e) => [e.valveId, readEntry(e, card.valves.find((v) => v.valveId === e.valveId)!, card.adjuster)])),
@@ -51,18 +54,22 @@ export function ValveCardScreen({ card }: { card: ValveCard }) {
     const firstBad = card.valves.find((s) => entryProblems(readings.get(s.valveId)!).length > 0);
     if (firstBad) return document.getElementById(`valve-${firstBad.valveId}`)?.scrollIntoView({ behavior: 'smooth', block: 'center' });
     const sent = draft.entries.map((e) => toReadingInput(e, readings.get(e.valveId)!, card.adjuster)).filter((r): r is ValveReadingInput => r !== null);
+    const used = partsToSend(card.parts, usedParts);
+    if (used.bad.length) return setClientErrors(Object.fromEntries(used.bad.map((id) => [`parts.${id}`, 'Type what was used as a number, 0 or more.'])));
     const parsed = CloseValveTaskSchema.safeParse({
       version: card.task.version,
       date: draft.date || undefined,
       notes: draft.notes.trim() || undefined,
       readings: sent,
       override: me.role === 'manager' && outside.length ? { reason } : undefined,
+      parts: used.lines,
     });
     if (!parsed.success) return setClientErrors(Object.fromEntries(parsed.error.issues.map((i) => [i.path.join('.'), i.message])));
     setClientErrors({});
     close.mutate(parsed.data, {
       onSuccess: (res) => {
         clear();
+        clearUsedParts();
         setDone(res.task);
       },
       onError: (err) => setErrors(signOffErrors(err, sent)),
@@ -138,6 +145,15 @@ export function ValveCardScreen({ card }: { card: ValveCard }) {
           pending={close.isPending}
           disabled={false}
           onSubmit={submit}
+          parts={
+            <PartsUsed
+              taskId={card.task.id}
+              parts={card.parts}
+              values={usedParts}
+              onChange={(partId, raw) => setUsedParts({ ...usedParts, [partId]: raw })}
+              error={(path) => clientErrors[path] ?? errors?.fields[path]}
+            />
+          }
           onReload={() => {
             setErrors(null);
             void qc.invalidateQueries({ queryKey: valveQueries.card(card.task.id).queryKey });
