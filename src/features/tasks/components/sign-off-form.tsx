@@ -12,7 +12,7 @@ import { ReadingInput } from './reading-input';
 import { judge, toReadingValue } from './reading-judge';
 import { GroundingSummary } from './grounding-summary';
 import { taskDetailQuery, useSignOff } from './task-readings';
-import { PartsUsed, partsToSend } from './parts-used';
+import { PartsUsed, partsToSend } from '../../../components/ui/parts-used';
 
 interface Props {
   task: Task;

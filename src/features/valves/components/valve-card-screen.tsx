@@ -17,7 +17,7 @@ import { CardToolbar } from './card-toolbar';
 import { Cautions } from './cautions';
 import { ShimPlanPanel } from './shim-plan-panel';
 import { SignOffPanel } from './sign-off-panel';
-import { PartsUsed, partsToSend } from '../../tasks/components/parts-used';
+import { PartsUsed, partsToSend } from '../../../components/ui/parts-used';
 import { useDraft } from '../../../lib/use-draft';
 import { SignedOff } from './signed-off';
 import { ValveRow } from './valve-row';

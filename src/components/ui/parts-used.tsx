@@ -1,5 +1,5 @@
-import { formatQty, UNIT_WORDS } from '../../../../shared/domain/parts';
-import type { TaskPart } from '../../../../shared/schemas/parts';
+import { formatQty, UNIT_WORDS } from '../../../shared/domain/parts';
+import type { TaskPart } from '../../../shared/schemas/parts';
 
 interface Props {
   taskId: string;
