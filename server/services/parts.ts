@@ -6,7 +6,7 @@ import {
 } from '../db/schema';
 import { addDaysIso, todayInZone } from '../../shared/domain/dates';
 import { canSeeSite } from '../../shared/domain/policies';
-import { judgeMovement, roundQty, suggestedOrder, type MovementKind, type PartUnit } from '../../shared/domain/parts';
+import { MOVEMENT_WORDS, judgeMovement, roundQty, suggestedOrder, type MovementKind, type PartUnit } from '../../shared/domain/parts';
 import {
   dailyDistances, needWithin, runsOutDay, runsOutWeek, simulatePartUse, weeklyNeed, type ForecastBikeInput, type ForecastItemInput,
 } from '../../shared/domain/parts-forecast';
@@ -78,15 +78,6 @@ export async function stockView(db: DbOrTx, user: SessionUser, siteId: string): 
   };
 }
 
-const KIND_WORDS: Record<MovementKind, string> = {
-  received: 'Received',
-  used: 'Used',
-  'stock-take': 'Stock-take',
-  'transfer-in': 'Transfer in',
-  'transfer-out': 'Transfer out',
-  'write-off': 'Written off',
-};
-
 export interface LedgerWrite {
   siteId: string;
   partId: string;
@@ -118,7 +109,7 @@ export async function bookMovement(tx: DbOrTx, m: LedgerWrite): Promise<number> 
   if (!verdict.ok) throw badRequest(verdict.error, [{ path: 'quantity', message: verdict.error }]);
   const onHand = roundQty(row.onHand + verdict.delta);
   await tx.insert(stockMovements).values({
-    siteId: m.siteId, partId: m.partId, kind: m.kind, delta: verdict.delta, reason: m.reason || KIND_WORDS[m.kind],
+    siteId: m.siteId, partId: m.partId, kind: m.kind, delta: verdict.delta, reason: m.reason || MOVEMENT_WORDS[m.kind],
     taskId: m.taskId ?? null, purchaseOrderId: m.purchaseOrderId ?? null, by: m.by, at: m.at,
   });
   await tx.update(partStock).set({ onHand }).where(and(eq(partStock.siteId, m.siteId), eq(partStock.partId, m.partId)));
@@ -168,7 +159,7 @@ export async function recordMovement(db: Db, user: SessionUser, b: StockMovement
       await bookMovement(tx, { ...base, siteId: from, kind: 'transfer-out', reason: `Transfer to another site${note}` });
       await bookMovement(tx, { ...base, siteId: to, kind: 'transfer-in', reason: `Transfer from another site${note}` });
     } else {
-      await bookMovement(tx, { ...base, siteId: b.siteId, kind: b.kind, reason: b.note ? `${KIND_WORDS[b.kind]}: ${b.note}` : KIND_WORDS[b.kind] });
+      await bookMovement(tx, { ...base, siteId: b.siteId, kind: b.kind, reason: b.note ? `${MOVEMENT_WORDS[b.kind]}: ${b.note}` : MOVEMENT_WORDS[b.kind] });
     }
   });
   return stockView(db, user, b.siteId);

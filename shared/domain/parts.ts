@@ -13,6 +13,16 @@ export type PartFamily = (typeof PART_FAMILIES)[number];
 export const MOVEMENT_KINDS = ['received', 'used', 'stock-take', 'transfer-in', 'transfer-out', 'write-off'] as const;
 export type MovementKind = (typeof MOVEMENT_KINDS)[number];
 
+/** A movement's kind in words, for the ledger's reasons and the screens. */
+export const MOVEMENT_WORDS: Record<MovementKind, string> = {
+  received: 'Received',
+  used: 'Used',
+  'stock-take': 'Stock-take',
+  'transfer-in': 'Transfer in',
+  'transfer-out': 'Transfer out',
+  'write-off': 'Written off',
+};
+
 export const ORDER_STATES = ['draft', 'sent', 'part-received', 'received', 'cancelled'] as const;
 export type OrderState = (typeof ORDER_STATES)[number];
 

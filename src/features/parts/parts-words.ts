@@ -1,5 +1,5 @@
 import { format } from 'date-fns';
-import { formatQty, orderLabel, type MovementKind, type OrderState, type PartFamily, type PartUnit } from '../../../shared/domain/parts';
+import { MOVEMENT_WORDS, formatQty, orderLabel, type OrderState, type PartFamily, type PartUnit } from '../../../shared/domain/parts';
 import type { PurchaseOrder } from '../../../shared/schemas/parts';
 import type { Tone } from '../../components/ui/tone-badge';
 
@@ -7,14 +7,7 @@ export const FAMILY_WORDS: Record<PartFamily, string> = {
   oil: 'Oil', filter: 'Filters', brakes: 'Brakes', tyres: 'Tyres', chain: 'Chain', fluid: 'Fluids', gasket: 'Gaskets and washers', plug: 'Plugs', other: 'Other',
 };
 
-export const MOVEMENT_WORDS: Record<MovementKind, string> = {
-  received: 'Received',
-  used: 'Used',
-  'stock-take': 'Stock-take',
-  'transfer-in': 'Transfer in',
-  'transfer-out': 'Transfer out',
-  'write-off': 'Written off',
-};
+export { MOVEMENT_WORDS };
 
 export const ORDER_WORDS: Record<OrderState, { label: string; tone: Tone; icon: string }> = {
   draft: { label: 'Draft, not sent', tone: 'neutral', icon: '✎' },
