@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, gte, inArray, ne, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, gte, inArray, lte, ne, sql } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../db/client';
 import {
   bikeModels, bikes, dueStates, odometerReadings, partStock, parts, purchaseOrderLines, purchaseOrders, serviceItemParts, serviceItems,
@@ -8,7 +8,8 @@ import { addDaysIso, todayInZone } from '../../shared/domain/dates';
 import { canSeeSite } from '../../shared/domain/policies';
 import { MOVEMENT_WORDS, judgeMovement, roundQty, suggestedOrder, type MovementKind, type PartUnit } from '../../shared/domain/parts';
 import {
-  dailyDistances, needWithin, runsOutDay, runsOutWeek, simulatePartUse, weeklyNeed, type ForecastBikeInput, type ForecastItemInput,
+  dailyDistances, needWithin, runsOutDay, runsOutWeek, RIDING_WINDOW_DAYS, seasonalFactor, simulatePartUse, weeklyNeed, yearAgoDays,
+  type ForecastBikeInput, type ForecastItemInput, type YearAgoKm,
 } from '../../shared/domain/parts-forecast';
 import type { SessionUser } from '../../shared/schemas/auth';
 import type { Forecast, Part, PartsUsed, StockLine, StockMovementCreate, StockView, TaskPart } from '../../shared/schemas/parts';
@@ -177,7 +178,23 @@ export async function setPartMinimum(db: Db, user: SessionUser, siteId: string, 
 }
 
 /** The inputs of a site's forecast: its bikes, their due states and recent riding, and the plan. */
-async function forecastInputs(db: DbOrTx, siteId: string, today: string): Promise<ForecastBikeInput[]> {
+/** The site's riding a year back, around the same calendar days, for the seasonal factor. */
+async function yearAgoKm(db: DbOrTx, bikeIds: string[], today: string, horizonDays: number): Promise<YearAgoKm[]> {
+  const d = yearAgoDays(today, RIDING_WINDOW_DAYS, horizonDays);
+  // A bike's odometer on a day is its greatest reading by then; one read up to a month before the window counts.
+  const rows = await db
+    .select({
+      atWindowStart: sql<number | null>`max(${odometerReadings.odometerKm}) filter (where ${odometerReadings.date} <= ${d.windowStart})`.mapWith((v) => (v === null ? null : Number(v))),
+      atYearAgo: sql<number | null>`max(${odometerReadings.odometerKm}) filter (where ${odometerReadings.date} <= ${d.yearAgo})`.mapWith((v) => (v === null ? null : Number(v))),
+      atHorizonEnd: sql<number | null>`max(${odometerReadings.odometerKm})`.mapWith((v) => (v === null ? null : Number(v))),
+    })
+    .from(odometerReadings)
+    .where(and(inArray(odometerReadings.bikeId, bikeIds), gte(odometerReadings.date, addDaysIso(d.windowStart, -30)), lte(odometerReadings.date, d.horizonEnd)))
+    .groupBy(odometerReadings.bikeId);
+  return rows;
+}
+
+async function forecastInputs(db: DbOrTx, siteId: string, today: string, horizonDays: number): Promise<ForecastBikeInput[]> {
   const uses = await db
     .select({ serviceItemId: serviceItemParts.serviceItemId, partId: serviceItemParts.partId, quantity: serviceItemParts.quantity, share: serviceItemParts.share })
     .from(serviceItemParts);
@@ -196,7 +213,8 @@ async function forecastInputs(db: DbOrTx, siteId: string, today: string): Promis
     .from(dueStates)
     .innerJoin(serviceItems, eq(serviceItems.id, dueStates.serviceItemId))
     .where(and(inArray(dueStates.bikeId, bikeIds), inArray(dueStates.serviceItemId, itemIds)));
-  const since = addDaysIso(today, -90);
+  const since = addDaysIso(today, -RIDING_WINDOW_DAYS);
+  const season = seasonalFactor(await yearAgoKm(db, bikeIds, today, horizonDays), RIDING_WINDOW_DAYS, horizonDays);
   const readings = await db
     .select({ bikeId: odometerReadings.bikeId, date: odometerReadings.date, odometerKm: odometerReadings.odometerKm })
     .from(odometerReadings)
@@ -220,7 +238,7 @@ async function forecastInputs(db: DbOrTx, siteId: string, today: string): Promis
   for (const s of states) {
     let bike = byBike.get(s.bikeId);
     if (!bike) {
-      bike = { bikeId: s.bikeId, siteId, currentKm: s.currentKm, dailyKm: dailyDistances(readingsOf.get(s.bikeId) ?? []), items: [] };
+      bike = { bikeId: s.bikeId, siteId, currentKm: s.currentKm, dailyKm: dailyDistances(readingsOf.get(s.bikeId) ?? [], RIDING_WINDOW_DAYS).map((km) => km * season), items: [] };
       byBike.set(s.bikeId, bike);
     }
     (bike.items as ForecastItemInput[]).push({
@@ -236,7 +254,7 @@ export async function forecastFor(db: DbOrTx, user: SessionUser, siteId: string,
   const [site] = await db.select({ timeZone: sites.timeZone }).from(sites).where(eq(sites.id, siteId));
   if (!site) throw notFound('That site');
   const today = todayInZone(site.timeZone, now);
-  const inputs = await forecastInputs(db, siteId, today);
+  const inputs = await forecastInputs(db, siteId, today, weeks * 7);
   const sim = simulatePartUse(inputs, { today, weeks, seed: siteId });
   const stock = await stockLines(db, siteId);
   const catalogue = new Map((await db.select({ id: parts.id, leadTimeDays: parts.leadTimeDays, packSize: parts.packSize }).from(parts)).map((p) => [p.id, p]));

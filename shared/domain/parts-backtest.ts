@@ -10,8 +10,8 @@
 import { addDaysIso, addMonthsIso, compareIso, daysBetween, type IsoDate } from './dates';
 import { dueAtKmFor } from './due';
 import {
-  dailyDistances, quantileSorted, runTotals, simulatePartUse, weekStartOf,
-  type ForecastBikeInput, type ForecastItemInput, type ForecastPartUse, type ForecastSamples,
+  RIDING_WINDOW_DAYS, dailyDistances, quantileSorted, runTotals, seasonalFactor, simulatePartUse, weekStartOf, yearAgoDays,
+  type ForecastBikeInput, type ForecastItemInput, type ForecastPartUse, type ForecastSamples, type YearAgoKm,
 } from './parts-forecast';
 import type { KmReading } from './usage';
 
@@ -90,7 +90,7 @@ export interface BacktestResult {
 }
 
 export const DEFAULT_BACKTEST_HORIZON_DAYS = 90;
-export const DEFAULT_BACKTEST_WINDOW_DAYS = 60;
+export const DEFAULT_BACKTEST_WINDOW_DAYS = RIDING_WINDOW_DAYS;
 export const DEFAULT_BACKTEST_RUNS = 200;
 
 /** A map from key to the rows with that key, in their order. */
@@ -142,12 +142,28 @@ export function distancesAsOf(readings: readonly KmReading[], cutoff: IsoDate, w
   return dailyDistances(recent, windowDays);
 }
 
-/** The forecast inputs as they stood at the end of the cut-off day: bikes in service by then, items with parts. */
-export function forecastInputsAsOf(h: BacktestHistory, cutoff: IsoDate, windowDays: number): ForecastBikeInput[] {
+/** A bike's odometer on the three days a year back that the seasonal factor reads. */
+export function yearAgoKmAsOf(readings: readonly KmReading[], cutoff: IsoDate, windowDays: number, horizonDays: number): YearAgoKm {
+  const d = yearAgoDays(cutoff, windowDays, horizonDays);
+  // As the server reads it: the greatest reading by each day, from a month before the window on.
+  const from = addDaysIso(d.windowStart, -30);
+  const by = (day: IsoDate) => {
+    let km: number | null = null;
+    for (const r of readings) if (compareIso(r.date, from) >= 0 && compareIso(r.date, day) <= 0 && (km === null || r.odometerKm > km)) km = r.odometerKm;
+    return km;
+  };
+  return { atWindowStart: by(d.windowStart), atYearAgo: by(d.yearAgo), atHorizonEnd: by(d.horizonEnd) };
+}
+
+/** The forecast inputs as they stood at the end of the cut-off day: bikes in service by then, items with parts, riding scaled by the season. */
+export function forecastInputsAsOf(h: BacktestHistory, cutoff: IsoDate, windowDays: number, horizonDays = DEFAULT_BACKTEST_HORIZON_DAYS): ForecastBikeInput[] {
   const partsOf = groupBy(h.itemParts, (p) => p.serviceItemId);
   const itemsOf = groupBy(h.serviceItems.filter((i) => partsOf.has(i.id)), (i) => i.modelId);
   const readingsOf = groupBy(h.readings, (r) => r.bikeId);
   const recordsOf = groupBy(h.serviceRecords, (r) => `${r.bikeId}|${r.serviceItemId}`);
+  const season = new Map<string, number>();
+  for (const [siteId, bikes] of groupBy(h.bikes, (b) => b.siteId))
+    season.set(siteId, seasonalFactor(bikes.map((b) => yearAgoKmAsOf(readingsOf.get(b.id) ?? [], cutoff, windowDays, horizonDays)), windowDays, horizonDays));
   const out: ForecastBikeInput[] = [];
   for (const bike of h.bikes) {
     if (compareIso(bike.inService.date, cutoff) > 0) continue;
@@ -163,7 +179,7 @@ export function forecastInputsAsOf(h: BacktestHistory, cutoff: IsoDate, windowDa
     if (!items.length) continue;
     out.push({
       bikeId: bike.id, siteId: bike.siteId, currentKm: kmAsOf(readings, bike.inService, cutoff),
-      dailyKm: distancesAsOf(readings, cutoff, windowDays), items,
+      dailyKm: distancesAsOf(readings, cutoff, windowDays).map((km) => km * season.get(bike.siteId)!), items,
     });
   }
   return out.sort((a, b) => (a.bikeId < b.bikeId ? -1 : a.bikeId > b.bikeId ? 1 : 0));
@@ -227,7 +243,7 @@ export function backtestPartsForecast(h: BacktestHistory, o: BacktestOptions = {
   const cutoff = addDaysIso(h.today, -horizonDays);
   // The forecast's first day is the day after the cut-off, its last today.
   const start = addDaysIso(cutoff, 1);
-  const sim = simulatePartUse(forecastInputsAsOf(h, cutoff, windowDays), {
+  const sim = simulatePartUse(forecastInputsAsOf(h, cutoff, windowDays, horizonDays), {
     today: start, weeks: weeksToCover(start, horizonDays), runs: o.runs ?? DEFAULT_BACKTEST_RUNS, seed: o.seed ?? 'backtest',
   });
   const families = byFamily(h.parts, partP50s(sim, horizonDays), actualUse(h, cutoff));

@@ -280,3 +280,45 @@ export function dailyDistances(readings: readonly { date: IsoDate; odometerKm: n
   }
   return out;
 }
+
+/** One bike's odometer a year back: its greatest reading by the start of the window, by its end (the day a year before today), and by the end of the horizon after that. */
+export interface YearAgoKm {
+  atWindowStart: number | null;
+  atYearAgo: number | null;
+  atHorizonEnd: number | null;
+}
+
+/** Days of recent riding each bike's coming days are drawn from. */
+export const RIDING_WINDOW_DAYS = 90;
+
+export const SEASON_FACTOR_LIMITS = { min: 0.25, max: 2 } as const;
+/** Fewer bikes with a year of history than this, and the season is not judged. */
+export const SEASON_MIN_BIKES = 3;
+
+/**
+ * How the coming days will ride against the recent ones, read off the same calendar days a year
+ * ago: km per bike-day over the year-ago horizon ÷ km per bike-day over the year-ago window. The
+ * forecast draws each bike's coming days from its recent ones, so without this a summer's riding
+ * would be carried into the autumn. 1 without enough history; held within 0.25–2 so that one odd
+ * year cannot swamp the forecast.
+ */
+export function seasonalFactor(bikes: readonly YearAgoKm[], windowDays: number, horizonDays: number): number {
+  let past = 0;
+  let coming = 0;
+  let n = 0;
+  for (const b of bikes) {
+    if (b.atWindowStart === null || b.atYearAgo === null || b.atHorizonEnd === null) continue;
+    past += Math.max(0, b.atYearAgo - b.atWindowStart);
+    coming += Math.max(0, b.atHorizonEnd - b.atYearAgo);
+    n++;
+  }
+  if (n < SEASON_MIN_BIKES || past <= 0 || windowDays <= 0 || horizonDays <= 0) return 1;
+  const f = coming / horizonDays / (past / windowDays);
+  return Math.min(SEASON_FACTOR_LIMITS.max, Math.max(SEASON_FACTOR_LIMITS.min, f));
+}
+
+/** The three days a year back that `seasonalFactor` reads the odometers at. */
+export function yearAgoDays(today: IsoDate, windowDays: number, horizonDays: number) {
+  const yearAgo = addDaysIso(today, -365);
+  return { windowStart: addDaysIso(yearAgo, -windowDays), yearAgo, horizonEnd: addDaysIso(yearAgo, horizonDays) };
+}

@@ -210,3 +210,29 @@ describe('the stock ledger', () => {
     expect(judgeReceipt('part-received', lines, [{ partId: 'a', quantity: 6 }, { partId: 'b', quantity: 2 }], name)).toEqual({ ok: true, state: 'received' });
   });
 });
+
+describe('the seasonal factor of the forecast', () => {
+  it('scales the coming days by how a year ago rode after the same day against before it, worked by hand', async () => {
+    const { seasonalFactor, yearAgoDays } = await import('../../shared/domain/parts-forecast');
+    const { subDays, addDays, format } = await import('date-fns');
+    // Three bikes a year back: 900, 1,800 and 900 km over a 90-day window (3,600 km / 270 bike-days =
+    // 13.33 km a bike-day), then 100, 200 and 100 km over a 30-day horizon (400 km / 90 bike-days =
+    // 4.44 km a bike-day): the coming days ride a third as far.
+    const bikes = [
+      { atWindowStart: 1000, atYearAgo: 1900, atHorizonEnd: 2000 },
+      { atWindowStart: 5000, atYearAgo: 6800, atHorizonEnd: 7000 },
+      { atWindowStart: 0, atYearAgo: 900, atHorizonEnd: 1000 },
+    ];
+    expect(seasonalFactor(bikes, 90, 30)).toBeCloseTo((400 / 90) / (3600 / 270), 12);
+    expect(seasonalFactor(bikes, 90, 30)).toBeCloseTo(1 / 3, 12);
+    // A bike without a reading a year back does not count; fewer than three: no season is judged.
+    expect(seasonalFactor([...bikes.slice(0, 2), { atWindowStart: null, atYearAgo: 10, atHorizonEnd: 20 }], 90, 30)).toBe(1);
+    // A freak year is held within 0.25–2.
+    expect(seasonalFactor(bikes.map((b) => ({ ...b, atHorizonEnd: b.atYearAgo })), 90, 30)).toBe(0.25);
+    expect(seasonalFactor(bikes.map((b) => ({ ...b, atHorizonEnd: b.atYearAgo! + 10_000 })), 90, 30)).toBe(2);
+    // The days it reads, checked with date-fns: 365 days back, the window before it, the horizon after.
+    const d = yearAgoDays('2026-12-04', 90, 56);
+    const back = subDays(new Date(2026, 11, 4), 365);
+    expect(d).toEqual({ windowStart: format(subDays(back, 90), 'yyyy-MM-dd'), yearAgo: format(back, 'yyyy-MM-dd'), horizonEnd: format(addDays(back, 56), 'yyyy-MM-dd') });
+  });
+});
