@@ -45,7 +45,7 @@ export async function probe(w: Worker, label: string, work: () => Promise<unknow
   return { label, wallMs, statements, groups, plan };
 }
 
-const short = (sql: string, n = 110) => {
+export const short = (sql: string, n = 110) => {
   const one = sql.replace(/\s+/g, ' ').replace(/"/g, '');
   return one.length > n ? `${one.slice(0, n)}…` : one;
 };

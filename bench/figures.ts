@@ -2,6 +2,8 @@ import type { Results } from './run';
 import { kb, mb, ms, ratio, type Row } from './report';
 
 const n = (x: number) => x.toLocaleString('en-GB');
+/** The first table a statement reads, to name it in a cell. */
+export const tableOf = (sql: string) => /\bfrom\s+"?([a-z_]+)"?/i.exec(sql)?.[1] ?? 'first';
 const exponent = (t1: number, t2: number, n1: number, n2: number) => Math.log(t2 / t1) / Math.log(n2 / n1);
 
 /** The table: every figure beside its target and the floor measured in the same run on the same data. */
@@ -95,6 +97,31 @@ export function figureRows(r: Results): Row[] {
       ratio: p.lpBound ? ratio(p.objective, p.lpBound) : '—',
       ok: null,
     });
+  }
+  if (r.parts) {
+    const { seeded, sites } = r.parts;
+    const what = `${seeded.parts} parts, 8 weeks, ${sites[0]?.cold.runs ?? 0} runs`;
+    for (const s of sites) {
+      const sp = s.split;
+      const slowest = [...sp.statements].sort((a, b) => b.ms - a.ms)[0];
+      const gaps = [...sp.statements].sort((a, b) => b.jsBeforeMs - a.jsBeforeMs).slice(0, 2).map((g) => `${ms(g.jsBeforeMs)} before the ${tableOf(g.sql)} query`);
+      rows.push({ figure: `g. Parts forecast, ${s.site} (${n(s.bikes)} bikes, ${what}), cold`, measured: `${ms(s.cold.ms)} (CPU ${ms(s.cold.cpuMs)})`, target: '≤ 1 s', floor: '—', ratio: '—', ok: s.cold.ms <= 1000 });
+      rows.push({
+        figure: `g. Parts forecast, ${s.site}, warm (median of ${s.warmRuns}; ${n(s.cold.runningOut)} parts run out within 8 weeks)`,
+        measured: `${ms(s.warmMs)} (CPU ${ms(s.warmCpuMs)})`,
+        target: '≤ 1 s',
+        floor: `${ms(sp.sqlMs)} (the SQL of one warm run of ${ms(sp.wallMs)}: ${sp.statements.length} statements, slowest ${ms(slowest?.ms)} on ${tableOf(slowest?.sql ?? '')}, ${n(slowest?.rows ?? 0)} rows)`,
+        ratio: ratio(sp.wallMs, sp.sqlMs),
+        ok: s.warmMs <= 1000,
+      });
+      rows.push({ figure: `g. Parts forecast, ${s.site}: the JS of that warm run (between and after its statements)`, measured: `${ms(sp.wallMs - sp.sqlMs)}: ${gaps.join(', ')}, ${ms(sp.tailMs)} after the last`, target: '—', floor: '—', ratio: '—', ok: null });
+    }
+    const sum = (f: (s: (typeof sites)[number]) => number) => sites.reduce((t, s) => t + f(s), 0);
+    rows.push({ figure: `g. Parts forecast, all ${sites.length} sites together (${n(sum((s) => s.bikes))} bikes), warm medians summed`, measured: `${ms(sum((s) => s.warmMs))} (cold ${ms(sum((s) => s.cold.ms))})`, target: '—', floor: '—', ratio: '—', ok: null });
+    for (const s of sites) {
+      rows.push({ figure: `g. Stock page API, GET /api/stock?site= (${s.site}, ${seeded.parts} parts; median of ${s.httpRuns})`, measured: ms(s.stockHttpMs), target: '≤ 1 s', floor: `${ms(s.stockDirectMs)} (stockView direct, median of ${s.httpRuns})`, ratio: ratio(s.stockHttpMs, s.stockDirectMs), ok: s.stockHttpMs <= 1000 });
+      rows.push({ figure: `g. Forecast API, GET /api/forecast?site=&weeks=8 (${s.site}; median of ${s.warmRuns})`, measured: ms(s.forecastHttpMs), target: '≤ 1 s', floor: `${ms(s.warmMs)} (forecastFor direct, warm median)`, ratio: ratio(s.forecastHttpMs, s.warmMs), ok: s.forecastHttpMs <= 1000 });
+    }
   }
   if (r.bundle) {
     const b = r.bundle;

@@ -14,7 +14,8 @@ export interface PageMetrics {
 
 type Shift = PerformanceEntry & { value: number; hadRecentInput: boolean; sources?: { node?: Node | null }[] };
 
-export function installPageMetrics() {
+/** `firstTables`: route → caption of the table whose first row counts there (else the page's first row). */
+export function installPageMetrics(firstTables: Record<string, string> | null) {
   const state: PageMetrics = { lcp: null, cls: 0, firstRowDomAt: null, firstRowAt: null, shifts: [] };
   const describe = (node: Node | null | undefined) => {
     if (!node || !(node instanceof Element)) return node?.nodeName ?? '?';
@@ -48,8 +49,11 @@ export function installPageMetrics() {
   }
   const check = () => {
     if (state.firstRowDomAt !== null) return;
-    // A table's first row; on the plan board, its first visit block.
-    const tr = document.querySelector(location.pathname === '/plan' ? '[data-testid^="visit-"]' : 'tbody tr');
+    // A table's first row (of the named table where there is one); on the plan board, its first visit block.
+    const caption = firstTables?.[location.pathname];
+    const tr = caption
+      ? [...document.querySelectorAll('table')].find((t) => t.caption?.textContent?.trim() === caption)?.querySelector('tbody tr')
+      : document.querySelector(location.pathname === '/plan' ? '[data-testid^="visit-"]' : 'tbody tr');
     if (!tr || tr.getBoundingClientRect().height === 0) return;
     state.firstRowDomAt = performance.now();
     observer.disconnect();

@@ -4,6 +4,8 @@ import { checkInLoader, dueListLoad, type CheckInRun, type LoadFigures } from '.
 import { median, percentile } from './report';
 import type { Worker } from './worker-client';
 import type { CpuSummary } from './cpu-profile';
+import type { ForecastRun, PartsSeeded } from './parts-bench';
+import type { Statement } from './raw-sql';
 
 interface ScanRun {
   ms: number;
@@ -136,4 +138,105 @@ export async function apiPhase(w: Worker): Promise<ApiFigures> {
     seconds,
     cpu,
   };
+}
+
+export interface SiteParts {
+  site: string;
+  bikes: number;
+  cold: ForecastRun;
+  /** Medians of the warm runs, straight on the database. */
+  warmMs: number;
+  warmCpuMs: number;
+  warmRuns: number;
+  /** One warm run in its parts: each statement with the JS run before it (building on the one before), and the JS after the last. */
+  split: ForecastSplit;
+  stockDirectMs: number;
+  /** Medians over HTTP with the manager's session, each request to its whole answer. */
+  stockHttpMs: number;
+  forecastHttpMs: number;
+  httpRuns: number;
+}
+
+export interface PartsFigures {
+  seeded: PartsSeeded;
+  sites: SiteParts[];
+  probes: Probe[];
+  cpu: CpuSummary & { label: string };
+}
+
+const WARM_RUNS = 5;
+const HTTP_RUNS = 7;
+
+export interface ForecastSplit {
+  wallMs: number;
+  sqlMs: number;
+  statements: { sql: string; ms: number; rows: number; jsBeforeMs: number }[];
+  tailMs: number;
+}
+
+/** Where one forecast's wall time went, from the statements it sent, placed on the server's clock. */
+function splitRun(run: ForecastRun, statements: Statement[]): ForecastSplit {
+  const own = statements.filter((s) => s.at >= run.startAt && s.at <= run.endAt).sort((a, b) => a.at - b.at);
+  let end = run.startAt;
+  const out: ForecastSplit['statements'] = [];
+  for (const s of own) {
+    out.push({ sql: s.sql, ms: s.ms, rows: s.rows, jsBeforeMs: Math.max(0, s.at - end) });
+    end = Math.max(end, s.at + s.ms);
+  }
+  return { wallMs: run.ms, sqlMs: own.reduce((t, s) => t + s.ms, 0), statements: out, tailMs: run.endAt - end };
+}
+
+/**
+ * The parts forecast and the stock page on the fleet: a 40-part catalogue is added first (once),
+ * then each site's forecast is timed straight on the database, cold and warm, and the stock and
+ * forecast answers through the app with the manager's session.
+ */
+export async function partsPhase(w: Worker): Promise<PartsFigures> {
+  const seeded = await w.call<PartsSeeded>('seedParts');
+  const siteRows = await w.call<{ id: string; name: string; bikes: number }[]>('partSites');
+  const forecast = (siteId: string) => w.call<ForecastRun>('forecast', { siteId, weeks: 8 });
+  // Every site's first forecast before any repeat: the cold figures.
+  const colds = [];
+  for (const s of siteRows) colds.push(await forecast(s.id));
+  const probes: Probe[] = [];
+  const sess = await signIn(w.url);
+  const out: SiteParts[] = [];
+  for (const [i, s] of siteRows.entries()) {
+    const warm: ForecastRun[] = [];
+    for (let k = 0; k < WARM_RUNS; k++) warm.push(await forecast(s.id));
+    let run: ForecastRun | undefined;
+    const p = await probe(w, `Parts forecast, ${s.name} (${s.bikes.toLocaleString('en-GB')} bikes, 8 weeks, one warm run)`, async () => {
+      run = await forecast(s.id);
+    });
+    probes.push(p);
+    const stockDirect: number[] = [];
+    for (let k = 0; k < HTTP_RUNS; k++) stockDirect.push((await w.call<{ ms: number }>('stock', { siteId: s.id })).ms);
+    const stockHttp: number[] = [];
+    for (let k = 0; k < HTTP_RUNS; k++) stockHttp.push(checked(await timedRequest(w.url, sess, `/api/stock?site=${s.id}`)).ms);
+    const forecastHttp: number[] = [];
+    for (let k = 0; k < WARM_RUNS; k++) forecastHttp.push(checked(await timedRequest(w.url, sess, `/api/forecast?site=${s.id}&weeks=8`)).ms);
+    out.push({
+      site: s.name,
+      bikes: s.bikes,
+      cold: colds[i],
+      warmMs: median(warm.map((r) => r.ms)),
+      warmCpuMs: median(warm.map((r) => r.cpuMs)),
+      warmRuns: warm.length,
+      split: splitRun(run!, p.statements),
+      stockDirectMs: median(stockDirect),
+      stockHttpMs: median(stockHttp),
+      forecastHttpMs: median(forecastHttp),
+      httpRuns: HTTP_RUNS,
+    });
+  }
+  // Where the CPU goes, on runs of their own so the sampling slows none of the figures above.
+  await w.call('cpuStart');
+  for (const s of siteRows) for (let k = 0; k < 2; k++) await forecast(s.id);
+  const cpu = { label: `Parts forecast, every site twice (${seeded.parts} parts, 8 weeks)`, ...(await w.call<CpuSummary>('cpuStop')) };
+  return { seeded, sites: out, probes, cpu };
+}
+
+function checked<T extends { status: number; text: string }>(r: T): T {
+  if (r.status !== 200) throw new Error(`The parts API answered ${r.status}: ${r.text.slice(0, 200)}`);
+  return r;
 }

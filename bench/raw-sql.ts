@@ -24,6 +24,8 @@ export interface Statement {
   params: unknown[];
   ms: number;
   rows: number;
+  /** When it was sent, on the server's clock (performance.now()). */
+  at: number;
 }
 
 type QueryFn = (text: unknown, params?: unknown, opts?: unknown) => Promise<{ rows?: unknown[] }>;
@@ -42,7 +44,7 @@ export function statementRecorder(database: Database) {
       const r = await fn.call(this, text, params, opts);
       const sql = typeof text === 'string' ? text : String((text as { text?: string }).text ?? '');
       const values = Array.isArray(params) ? params : ((text as { values?: unknown[] }).values ?? []);
-      log?.push({ sql, params: values, ms: performance.now() - t0, rows: r?.rows?.length ?? 0 });
+      log?.push({ sql, params: values, ms: performance.now() - t0, rows: r?.rows?.length ?? 0, at: t0 });
       return r;
     };
   // The instrumented methods are typed per driver; the wrappers only pass their arguments through.

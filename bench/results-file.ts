@@ -1,5 +1,5 @@
 import type { Results } from './run';
-import { probeMarkdown } from './evidence';
+import { probeMarkdown, short } from './evidence';
 import { figuresTable, kb, markdownTable, ms, phasesTable, type Row } from './report';
 
 const n = (x: number) => x.toLocaleString('en-GB');
@@ -17,7 +17,15 @@ export function resultsMarkdown(r: Results, rows: Row[], m: { cpu: string; free:
     `(gzip, as the server sends it, this screen's chunks included); shifts ≥ 0.01: ${x.shifts.length ? x.shifts.map((h) => `${h.value.toFixed(3)} at ${ms(h.at)} (${h.moved.join('; ')})`).join(', ') : 'none'}.\n` +
     `  Waterfall (from navigation start): ${x.waterfall.map((e) => `${e.path.replace(/^\/assets\//, '')} ${Math.round(e.start)}→${Math.round(e.end)} ms`).join(', ')}`,
   );
-  const probes = [...r.scans.map((s) => s.probe), ...(r.api?.probes ?? [])];
+  const probes = [...r.scans.map((s) => s.probe), ...(r.api?.probes ?? []), ...(r.parts?.probes ?? [])];
+  const cpu = [...(r.api?.cpu ?? []), ...(r.parts ? [r.parts.cpu] : [])];
+  const seeded = r.parts?.seeded;
+  const forecastParts = (r.parts?.sites ?? []).map(({ site, bikes, split: sp }) =>
+    `#### ${site} (${n(bikes)} bikes): ${ms(sp.wallMs)} wall, ${ms(sp.sqlMs)} in ${sp.statements.length} statements\n\n` +
+    markdownTable(['JS before', 'Statement', 'Rows', 'SQL'], [
+      ...sp.statements.map((x) => [ms(x.jsBeforeMs), ms(x.ms), n(x.rows), `\`${short(x.sql).replace(/\|/g, '\\|')}\``]),
+      [ms(sp.tailMs), '—', '—', 'after the last statement: weekly quantiles, run-out days, suggested orders'],
+    ]));
   return `# Benchmark results
 
 Written by \`bench/run.ts\` on every run; the last run wins.
@@ -59,9 +67,17 @@ ${screens.join('\n')}
 
 ${markdownTable(['Bikes', 'Load inputs', 'Compute', 'Apply', 'Valve warnings', 'Readings loaded', 'Scan CPU of wall'], parts)}
 
+## Parts forecast in parts (one warm run per site: each statement, and the JS run before it)
+
+${seeded ? `The bench shelf (${seeded.inserted ? 'added in this run' : 'there already'}): ${n(seeded.parts)} parts from ${n(seeded.suppliers)} suppliers, ${n(seeded.links)} service-item links, ${n(seeded.stockRows)} shelf rows.
+The JS before a statement ran after the one before had answered: the rows mapped, the inputs built, and before the
+\`parts\` query, the simulation.
+
+${forecastParts.join('\n\n')}` : 'Not measured in this run.'}
+
 ## Where the server's CPU goes under load (V8 sampling profiler, self time)
 
-${(r.api?.cpu ?? []).map((c) => `#### ${c.label} (${Math.round(c.sampledMs)} ms sampled)\n\n` +
+${cpu.map((c) => `#### ${c.label} (${Math.round(c.sampledMs)} ms sampled)\n\n` +
   markdownTable(['Part', 'Share'], c.byPart.map((p) => [p.what, `${(100 * p.share).toFixed(1)} %`])) + '\n\n' +
   markdownTable(['Function (self time)', 'Share'], c.topFunctions.slice(0, 8).map((p) => [p.what, `${(100 * p.share).toFixed(1)} %`]))).join('\n\n')}
 

@@ -4,7 +4,7 @@ import { benchArgs, BENCH_DIR, DATA_ROOT, dataDirFor, type BenchArgs } from './a
 import { describeGeneration, generateFleet, type GenerateReport } from './generate';
 import { buildAndWeigh, type BundleFigures } from './bundle-size';
 import { browserBench, type ScreenFigures } from './browser-bench';
-import { apiPhase, scanPhase, type ApiFigures, type ScanFigures } from './phases';
+import { apiPhase, partsPhase, scanPhase, type ApiFigures, type PartsFigures, type ScanFigures } from './phases';
 import { figureRows } from './figures';
 import { figuresTable, load, machine, phasesTable, type Phase } from './report';
 import { resultsMarkdown } from './results-file';
@@ -13,8 +13,9 @@ import type { PlanFigures } from './plan-bench';
 
 /**
  * The fleet-scale benchmark: generates the synthetic fleets, then measures the due scan, the due
- * list and check-ins through the real app, the client build and two screens in Chromium, and the
- * server's memory. Prints one table and writes it with the machine's details to bench/RESULTS.md.
+ * list and check-ins through the real app, the workshop plan, the parts forecast and the stock page,
+ * the client build and the screens in Chromium, and the server's memory. Prints one table and
+ * writes it with the machine's details to bench/RESULTS.md.
  *
  *   npm run bench                      2,000 bikes (and 200 for the scaling exponent), on-disk PGlite
  *   npm run bench -- --full            also 20,000 bikes (about 15 million readings: long)
@@ -28,6 +29,7 @@ export interface Results {
   scans: ScanFigures[];
   api?: ApiFigures;
   plan?: PlanFigures;
+  parts?: PartsFigures;
   bundle?: BundleFigures;
   screens?: ScreenFigures[];
   memory?: { start: Memory; end: Memory; afterGc: Memory };
@@ -87,7 +89,10 @@ async function main() {
       // The workshop plan on this fleet: bays, technicians and 3,000 bookings are added first, so
       // the screens below include the plan board with its visits.
       res.plan = await timed(res.phases, `Workshop plan, ${bikes.toLocaleString('en-GB')} bikes`, () => w.call<PlanFigures>('plan', { bikes }));
-      if (!args.skipClient) res.screens = await timed(res.phases, 'Chromium: sign in, /fleet, /this-week, /plan', () => browserBench(w.url));
+      // A 40-part catalogue linked to every service item and shelved at both sites (added once),
+      // then the forecast and the stock answers; the screens below include the parts screen.
+      res.parts = await timed(res.phases, `Parts forecast and stock, ${bikes.toLocaleString('en-GB')} bikes`, () => partsPhase(w));
+      if (!args.skipClient) res.screens = await timed(res.phases, 'Chromium: sign in, /fleet, /this-week, /plan, /parts', () => browserBench(w.url));
       res.memory = { start: w.startMemory, end: await w.call<Memory>('memory'), afterGc: await w.call<Memory>('memoryAfterGc') };
     }, main ? dist : undefined);
   }

@@ -12,6 +12,7 @@ import { cpuProfiler } from './cpu-profile';
 import { scanParts, timedFloor, timedScan } from './scan-bench';
 import { checkInTargets, countExisting, explain, readingCount, timedInsertFloor, timedListDue } from './direct-bench';
 import { planPhase } from './plan-bench';
+import { partSites, seedPartsCatalogue, timedForecast, timedStock } from './parts-bench';
 
 /**
  * The server under test, in its own process: the real app over the generated data, plus the
@@ -65,6 +66,10 @@ const handlers: Record<string, Handler> = {
   scan: () => timedScan(database),
   scanParts: () => scanParts(database),
   plan: (a) => planPhase(database, Number(a.bikes)),
+  seedParts: () => seedPartsCatalogue(database),
+  partSites: () => partSites(database),
+  forecast: (a) => timedForecast(database, String(a.siteId), Number(a.weeks ?? 8)),
+  stock: (a) => timedStock(database, String(a.siteId)),
   floor: () => timedFloor(raw),
   listDue: (a) => timedListDue(database, { maxRuns: Number(a.maxRuns ?? 50), maxMs: Number(a.maxMs ?? 8000) }),
   checkInTargets: () => checkInTargets(raw),
