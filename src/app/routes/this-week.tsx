@@ -1,3 +1,4 @@
+import { useEffect, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { ThisWeekRoute } from '../../features/due/routes/this-week';
 import { WarningsList } from '../../features/valves/components/warnings-list';
@@ -8,10 +9,18 @@ import { ShortageList } from '../../features/parts/components/shortage-list';
 /** The manager's board, with the valves that are closing up faster than their interval allows and the parts about to run out. */
 export function ThisWeekBoard() {
   const warnings = useQuery(valveQueries.warnings());
-  const short = useQuery(partQueries.shortages());
+  // The shortages come from every site's parts forecast, the heaviest read of the board: asked for
+  // once the board's own reads have gone (the embedded database answers one query at a time), and
+  // the board does not wait for them. The section sits below the fold, so its arrival moves nothing seen.
+  const [asked, setAsked] = useState(false);
+  useEffect(() => {
+    const t = setTimeout(() => setAsked(true), 400);
+    return () => clearTimeout(t);
+  }, []);
+  const short = useQuery({ ...partQueries.shortages(), enabled: asked });
   return (
     <ThisWeekRoute
-      extraPending={warnings.isPending || short.isPending}
+      extraPending={warnings.isPending}
       extra={
         <>
           <section aria-labelledby="valve-warnings" className="flex flex-col gap-2">
@@ -28,8 +37,10 @@ export function ThisWeekBoard() {
             </h2>
             {short.data ? (
               <ShortageList items={short.data.items} />
+            ) : short.error ? (
+              <p role="alert" className="text-state-stop">⚠ The parts forecast could not be loaded: {short.error.message}</p>
             ) : (
-              short.error && <p role="alert" className="text-state-stop">⚠ The parts forecast could not be loaded: {short.error.message}</p>
+              <p className="min-h-14 rounded-card border-2 border-dashed border-ink-line p-4 text-ink-soft">Working out which parts run short…</p>
             )}
           </section>
         </>
