@@ -200,7 +200,11 @@ async function forecastInputs(db: DbOrTx, siteId: string, today: string, horizon
     .from(serviceItemParts);
   if (!uses.length) return [];
   const usesByItem = new Map<string, { partId: string; quantity: number; share: number }[]>();
-  for (const u of uses) usesByItem.set(u.serviceItemId, [...(usesByItem.get(u.serviceItemId) ?? []), { partId: u.partId, quantity: u.quantity, share: u.share }]);
+  for (const u of uses) {
+    const list = usesByItem.get(u.serviceItemId) ?? [];
+    if (!list.length) usesByItem.set(u.serviceItemId, list);
+    list.push({ partId: u.partId, quantity: u.quantity, share: u.share });
+  }
   const itemIds = [...usesByItem.keys()];
   const fleet = await db
     .select({ id: bikes.id })
@@ -233,7 +237,12 @@ async function forecastInputs(db: DbOrTx, siteId: string, today: string, horizon
     planned.set(`${o.bikeId}|${o.serviceItemId}`, day < today ? today : day);
   }
   const readingsOf = new Map<string, { date: string; odometerKm: number }[]>();
-  for (const r of readings) readingsOf.set(r.bikeId, [...(readingsOf.get(r.bikeId) ?? []), { date: r.date, odometerKm: r.odometerKm }]);
+  // Pushed, not copied: a large site has a hundred thousand readings here.
+  for (const r of readings) {
+    const list = readingsOf.get(r.bikeId) ?? [];
+    if (!list.length) readingsOf.set(r.bikeId, list);
+    list.push({ date: r.date, odometerKm: r.odometerKm });
+  }
   const byBike = new Map<string, ForecastBikeInput>();
   for (const s of states) {
     let bike = byBike.get(s.bikeId);
