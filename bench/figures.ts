@@ -120,7 +120,7 @@ export function figureRows(r: Results): Row[] {
     rows.push({ figure: `g. Parts forecast, all ${sites.length} sites together (${n(sum((s) => s.bikes))} bikes), warm medians summed`, measured: `${ms(sum((s) => s.warmMs))} (cold ${ms(sum((s) => s.cold.ms))})`, target: '—', floor: '—', ratio: '—', ok: null });
     for (const s of sites) {
       rows.push({ figure: `g. Stock page API, GET /api/stock?site= (${s.site}, ${seeded.parts} parts; median of ${s.httpRuns})`, measured: ms(s.stockHttpMs), target: '≤ 1 s', floor: `${ms(s.stockDirectMs)} (stockView direct, median of ${s.httpRuns})`, ratio: ratio(s.stockHttpMs, s.stockDirectMs), ok: s.stockHttpMs <= 1000 });
-      rows.push({ figure: `g. Forecast API, GET /api/forecast?site=&weeks=8 (${s.site}; median of ${s.warmRuns})`, measured: ms(s.forecastHttpMs), target: '≤ 1 s', floor: `${ms(s.warmMs)} (forecastFor direct, warm median)`, ratio: ratio(s.forecastHttpMs, s.warmMs), ok: s.forecastHttpMs <= 1000 });
+      rows.push({ figure: `g. Forecast API, GET /api/forecast?site=&weeks=8 (${s.site}; median of ${s.warmRuns}; repeats answered from the kept simulation, shelf read fresh)`, measured: ms(s.forecastHttpMs), target: '≤ 1 s', floor: `${ms(s.warmMs)} (forecastFor direct, warm median)`, ratio: ratio(s.forecastHttpMs, s.warmMs), ok: s.forecastHttpMs <= 1000 });
     }
   }
   if (r.bundle) {

@@ -9,9 +9,11 @@ import type { ChangeFeed, Db } from '../db/client';
 /**
  * 'fleet' moves on with any write to the fleet's data; 'people' only with people, their sites and the
  * sites; 'valves' only with what valve trends are made of (valve checks and readings, services done,
- * bikes, models and their plans), not with every check-in.
+ * bikes, models and their plans), not with every check-in; 'plan' with the workshop's visits and
+ * the parts each service uses.
  */
-export type DataScope = 'fleet' | 'people' | 'valves';
+export type DataScope = 'fleet' | 'people' | 'valves' | 'plan';
+const SCOPES: readonly DataScope[] = ['fleet', 'people', 'valves', 'plan'];
 
 /** A cached answer: the JSON body as the bytes sent, and the data version it was read at. */
 interface Entry {
@@ -39,6 +41,9 @@ export interface CachedAnswer {
 export class ReadCache {
   private readonly entries: LRUCache<string, Entry>;
   private readonly pending = new Map<string, Promise<Entry>>();
+  /** Worked-out values (not answers) kept against the versions of several scopes. */
+  private readonly values = new LRUCache<string, { version: string; value: unknown }>({ max: 64 });
+  private readonly pendingValues = new Map<string, Promise<unknown>>();
   /** The version read once per request: every cached read in it is checked against that one read. */
   private readonly perRequest = new WeakMap<object, Promise<Record<DataScope, number>>>();
   /**
@@ -83,7 +88,7 @@ export class ReadCache {
       const row = rows.find((r) => r.scope === scope);
       return row ? Number(row.n) : Number.NaN;
     };
-    return { fleet: of('fleet'), people: of('people'), valves: of('valves') };
+    return Object.fromEntries(SCOPES.map((s) => [s, of(s)])) as Record<DataScope, number>;
   }
 
   /**
@@ -118,6 +123,29 @@ export class ReadCache {
   }
 
   /**
+   * A value worked out from the data of several scopes (e.g. a site's parts simulation), kept until
+   * any of them moves on. The versions are read before the data, as for answers. The value is
+   * shared: callers must not change it.
+   */
+  async remember<T>(key: string, scopes: readonly DataScope[], compute: () => Promise<T>): Promise<T> {
+    const all = await this.versions();
+    const version = scopes.map((s) => all[s]).join('.');
+    const held = this.values.get(key);
+    if (held && held.version === version) return held.value as T;
+    const flightKey = `${version}\n${key}`;
+    let flight = this.pendingValues.get(flightKey) as Promise<T> | undefined;
+    if (!flight) {
+      flight = (async () => {
+        const value = await compute();
+        if (!scopes.some((s) => Number.isNaN(all[s]))) this.values.set(key, { version, value });
+        return value;
+      })().finally(() => this.pendingValues.delete(flightKey));
+      this.pendingValues.set(flightKey, flight);
+    }
+    return flight;
+  }
+
+  /**
    * The key of an answer for one person's sites and query at this moment: time is in quarter hours,
    * the step every time zone's midnight falls on, so "today" in any zone cannot change under a key.
    */
@@ -127,6 +155,7 @@ export class ReadCache {
 
   clear() {
     this.entries.clear();
+    this.values.clear();
   }
 
   /**

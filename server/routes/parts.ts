@@ -32,7 +32,7 @@ export function partRoutes(ctx: AppContext) {
   });
 
   r.get('/stock/shortages', requireRole(...STOCK_STAFF), async (req, res) => {
-    res.json({ items: await shortages(db, currentUser(req), ctx.now()) });
+    res.json({ items: await shortages(db, currentUser(req), ctx.now(), ctx.readCache) });
   });
 
   r.post('/stock/movements', requireRole('technician', 'manager'), validate({ body: StockMovementCreateSchema }), async (req, res) => {
@@ -46,7 +46,7 @@ export function partRoutes(ctx: AppContext) {
 
   r.get('/forecast', requireRole(...STOCK_STAFF), validate({ query: ForecastQuerySchema }), async (req, res) => {
     const q = req.valid.query as ForecastQuery;
-    res.json(await forecastFor(db, currentUser(req), q.site, q.weeks, ctx.now()));
+    res.json(await forecastFor(db, currentUser(req), q.site, q.weeks, ctx.now(), ctx.readCache));
   });
 
   r.get('/purchase-orders', requireRole(...STOCK_STAFF), validate({ query: PurchaseOrderListQuerySchema }), async (req, res) => {
@@ -60,7 +60,7 @@ export function partRoutes(ctx: AppContext) {
 
   r.post('/purchase-orders/draft-from-forecast', requireRole('manager'), validate({ body: DraftFromForecastSchema }), async (req, res) => {
     const b = req.valid.body as z.infer<typeof DraftFromForecastSchema>;
-    res.status(201).json({ items: await draftsFromForecast(db, currentUser(req), b.siteId, ctx.now()) });
+    res.status(201).json({ items: await draftsFromForecast(db, currentUser(req), b.siteId, ctx.now(), ctx.readCache) });
   });
 
   r.post('/purchase-orders/:id/send', requireRole('manager'), validate({ params: OrderParams }), async (req, res) => {

@@ -14,6 +14,8 @@ import {
 import type { SessionUser } from '../../shared/schemas/auth';
 import type { Forecast, Part, PartsUsed, StockLine, StockMovementCreate, StockView, TaskPart } from '../../shared/schemas/parts';
 import { audit } from '../audit';
+import type { ReadCache } from '../cache/read-cache';
+import { jsonTuples, uuidArray } from '../db/json-rows';
 import { HttpError, badRequest, notFound } from '../http-error';
 
 /** Orders whose goods are still to come count as "on order". */
@@ -219,11 +221,13 @@ async function forecastInputs(db: DbOrTx, siteId: string, today: string, horizon
     .where(and(inArray(dueStates.bikeId, bikeIds), inArray(dueStates.serviceItemId, itemIds)));
   const since = addDaysIso(today, -RIDING_WINDOW_DAYS);
   const season = seasonalFactor(await yearAgoKm(db, bikeIds, today, horizonDays), RIDING_WINDOW_DAYS, horizonDays);
-  const readings = await db
-    .select({ bikeId: odometerReadings.bikeId, date: odometerReadings.date, odometerKm: odometerReadings.odometerKm })
-    .from(odometerReadings)
-    .where(and(inArray(odometerReadings.bikeId, bikeIds), gte(odometerReadings.date, since)))
-    .orderBy(asc(odometerReadings.bikeId), asc(odometerReadings.date));
+  // One row per bike, its readings as two arrays in date order, all as one JSON value: a large site
+  // has a hundred thousand readings in the window, and rows of columns cross from PGlite slowly.
+  const readings = await jsonTuples<[string, string[], number[]]>(
+    db,
+    sql`select json_build_array(${odometerReadings.bikeId}, array_agg(${odometerReadings.date} order by ${odometerReadings.date}), array_agg(${odometerReadings.odometerKm} order by ${odometerReadings.date})) as a
+        from ${odometerReadings} where ${odometerReadings.bikeId} = any(${uuidArray(bikeIds)}) and ${odometerReadings.date} >= ${since} group by ${odometerReadings.bikeId}`,
+  );
   // Open work: a planned visit's day, else the task's due date, is when its parts go.
   const open = await db
     .select({ bikeId: serviceTasks.bikeId, serviceItemId: serviceTasks.serviceItemId, dueDate: serviceTasks.dueDate, visitStart: visits.startAt })
@@ -236,13 +240,7 @@ async function forecastInputs(db: DbOrTx, siteId: string, today: string, horizon
     const day = o.visitStart ? o.visitStart.toISOString().slice(0, 10) : o.dueDate && o.dueDate > today ? o.dueDate : today;
     planned.set(`${o.bikeId}|${o.serviceItemId}`, day < today ? today : day);
   }
-  const readingsOf = new Map<string, { date: string; odometerKm: number }[]>();
-  // Pushed, not copied: a large site has a hundred thousand readings here.
-  for (const r of readings) {
-    const list = readingsOf.get(r.bikeId) ?? [];
-    if (!list.length) readingsOf.set(r.bikeId, list);
-    list.push({ date: r.date, odometerKm: r.odometerKm });
-  }
+  const readingsOf = new Map(readings.map(([bikeId, dates, km]) => [bikeId, dates.map((date, i) => ({ date, odometerKm: km[i] }))]));
   const byBike = new Map<string, ForecastBikeInput>();
   for (const s of states) {
     let bike = byBike.get(s.bikeId);
@@ -258,13 +256,17 @@ async function forecastInputs(db: DbOrTx, siteId: string, today: string, horizon
   return [...byBike.values()].sort((a, b) => (a.bikeId < b.bikeId ? -1 : 1));
 }
 
-export async function forecastFor(db: DbOrTx, user: SessionUser, siteId: string, weeks: number, now: Date): Promise<Forecast> {
+/**
+ * The site's forecast. With a cache, the simulation (the costly part) is kept per site, day and
+ * horizon until the fleet, the plan or a service's parts change; the shelf is read fresh each time.
+ */
+export async function forecastFor(db: DbOrTx, user: SessionUser, siteId: string, weeks: number, now: Date, cache?: ReadCache): Promise<Forecast> {
   siteOf(user, siteId);
   const [site] = await db.select({ timeZone: sites.timeZone }).from(sites).where(eq(sites.id, siteId));
   if (!site) throw notFound('That site');
   const today = todayInZone(site.timeZone, now);
-  const inputs = await forecastInputs(db, siteId, today, weeks * 7);
-  const sim = simulatePartUse(inputs, { today, weeks, seed: siteId });
+  const simulate = async () => simulatePartUse(await forecastInputs(db, siteId, today, weeks * 7), { today, weeks, seed: siteId });
+  const sim = cache ? await cache.remember(`parts-simulation\n${siteId}\n${today}\n${weeks}`, ['fleet', 'plan'], simulate) : await simulate();
   const stock = await stockLines(db, siteId);
   const catalogue = new Map((await db.select({ id: parts.id, leadTimeDays: parts.leadTimeDays, packSize: parts.packSize }).from(parts)).map((p) => [p.id, p]));
   const lineOf = new Map(sim.lines.map((l) => [l.partId, l]));

@@ -11,6 +11,7 @@ import { badRequest, conflict, notFound } from '../http-error';
 import { enqueue } from '../mail/outbox';
 import { escapeHtml } from '../mail/site-managers';
 import { bookMovement, forecastFor } from './parts';
+import type { ReadCache } from '../cache/read-cache';
 
 const siteOf = (user: SessionUser, siteId: string) => {
   if (!canSeeSite(user, siteId)) throw notFound('That site');
@@ -95,9 +96,9 @@ export async function createOrder(db: Db, user: SessionUser, b: PurchaseOrderCre
  * One draft per supplier from the site's cautious suggestions. A draft already open for that
  * supplier is topped up to the suggestion rather than doubled; a part with no supplier is left out.
  */
-export async function draftsFromForecast(db: Db, user: SessionUser, siteId: string, now: Date): Promise<PurchaseOrder[]> {
+export async function draftsFromForecast(db: Db, user: SessionUser, siteId: string, now: Date, cache?: ReadCache): Promise<PurchaseOrder[]> {
   siteOf(user, siteId);
-  const forecast = await forecastFor(db, user, siteId, 8, now);
+  const forecast = await forecastFor(db, user, siteId, 8, now, cache);
   const wanted = forecast.parts.filter((p) => p.suggested.quantity > 0);
   if (!wanted.length) return [];
   const ids = await db.transaction(async (tx) => {
@@ -199,11 +200,11 @@ export async function receiveOrder(db: Db, user: SessionUser, id: string, b: Pur
 }
 
 /** Across the caller's sites: the parts that run out before an order placed today could arrive, with the orders that hold them. */
-export async function shortages(db: DbOrTx, user: SessionUser, now: Date): Promise<Shortage[]> {
+export async function shortages(db: DbOrTx, user: SessionUser, now: Date, cache?: ReadCache): Promise<Shortage[]> {
   const mine = await db.select({ id: sites.id, name: sites.name }).from(sites).where(inArray(sites.id, user.siteIds.length ? user.siteIds : ['00000000-0000-0000-0000-000000000000'])).orderBy(asc(sites.name));
   const out: Shortage[] = [];
   for (const site of mine) {
-    const f = await forecastFor(db, user, site.id, 8, now);
+    const f = await forecastFor(db, user, site.id, 8, now, cache);
     const short = f.parts.filter((p) => p.shortBeforeDelivery);
     if (!short.length) continue;
     const open = await db

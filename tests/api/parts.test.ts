@@ -124,6 +124,27 @@ describe('the forecast', () => {
     expect(oil.runsOutWeek).toBeNull();
   });
 
+  it('answers from its kept simulation only while nothing it reads has changed', async () => {
+    const db = ctx.database.db;
+    const oilWeek = async () => ((await manager.get(`/api/forecast?site=${w.siteA.id}&weeks=4`)).body as Forecast).parts.find((p) => p.partId === oilId)!;
+    const before = await oilWeek();
+    expect((await oilWeek()).weeks).toEqual(before.weeks);
+    // The parts a service uses change (written straight to the database, outside the app): seen at once.
+    const [use] = await db.select().from(serviceItemParts).where(eq(serviceItemParts.partId, oilId));
+    await db.update(serviceItemParts).set({ quantity: 2.4 }).where(eq(serviceItemParts.serviceItemId, use.serviceItemId));
+    const doubled = await oilWeek();
+    expect(doubled.weeks.at(-1)!.cumulativeP50).toBeCloseTo(2 * before.weeks.at(-1)!.cumulativeP50, 3);
+    // The shelf is read fresh: a delivery moves on hand without any change to the simulation.
+    await tech.post('/api/stock/movements').send({ siteId: w.siteA.id, partId: oilId, kind: 'received', quantity: 4, unit: 'litre' });
+    expect((await oilWeek()).onHand).toBe(before.onHand + 4);
+    // A reading that changes the bike's riding moves the fleet version: the simulation is worked out again.
+    await db.delete(odometerReadings).where(eq(odometerReadings.bikeId, w.bikeA.id));
+    expect((await oilWeek()).weeks.at(-1)!.cumulativeP50).toBeLessThan(doubled.weeks.at(-1)!.cumulativeP50);
+    await db.update(serviceItemParts).set({ quantity: use.quantity }).where(eq(serviceItemParts.serviceItemId, use.serviceItemId));
+    await db.insert(odometerReadings).values(Array.from({ length: 30 }, (_, i) => ({ bikeId: w.bikeA.id, date: `2026-11-${String(i + 1).padStart(2, '0')}`, value: 2000 + 100 * i, unit: 'km' as const, odometerKm: 2000 + 100 * i })));
+    await tech.post('/api/stock/movements').send({ siteId: w.siteA.id, partId: oilId, kind: 'used', quantity: 4, unit: 'litre', note: 'put back as it was' });
+  });
+
   it('refuses a site the caller does not work at and weeks out of range, in words', async () => {
     expect((await tech.get(`/api/forecast?site=${w.siteB.id}`)).status).toBe(404);
     const res = await manager.get(`/api/forecast?site=${w.siteA.id}&weeks=99`);

@@ -21,7 +21,8 @@ export function PartsRoute() {
   const mine = (sites.data?.items ?? []).filter((s) => me.siteIds.includes(s.id));
   const siteId = params.get('site') && mine.some((s) => s.id === params.get('site')) ? params.get('site')! : (mine[0]?.id ?? '');
   const stock = useQuery(partQueries.stock(siteId));
-  const forecast = useQuery(partQueries.forecast(siteId));
+  // The forecast is the slow answer: asked once the shelf has come, so the shelf never waits behind it.
+  const forecast = useQuery({ ...partQueries.forecast(siteId), enabled: !!siteId && !stock.isPending });
   const [partId, setPartId] = useState('');
   const canManage = me.role === 'manager';
   const pick = (id: string) => {
@@ -46,6 +47,8 @@ export function PartsRoute() {
         <h2 id="shelf" className="text-xl font-bold">Stock at the site</h2>
         {stock.isPending ? <Loading what="the shelf" /> : stock.error ? <ErrorPanel error={stock.error} retry={() => stock.refetch()} /> : <PartStockTable items={items} onPick={pick} />}
       </section>
+      {/* What sits below the shelf shows once the shelf is there, and orders once the forecast is:
+          nothing already on screen is pushed down when an answer arrives. */}
       {stock.data && (
         <section aria-labelledby="movements" className="flex flex-col gap-4">
           <h2 id="movements" className="sr-only">Movements</h2>
@@ -57,14 +60,18 @@ export function PartsRoute() {
           <RecentMovements recent={stock.data.recent} items={items} />
         </section>
       )}
-      <section aria-labelledby="forecast" className="flex flex-col gap-2">
-        <h2 id="forecast" className="text-xl font-bold">Forecast, next {FORECAST_WEEKS} weeks</h2>
-        {forecast.isPending ? <Loading what="the forecast" /> : forecast.error ? <ErrorPanel error={forecast.error} retry={() => forecast.refetch()} /> : <ForecastPanel key={siteId} forecast={forecast.data} />}
-      </section>
-      <section aria-labelledby="orders" className="flex flex-col gap-2">
-        <h2 id="orders" className="text-xl font-bold">Orders</h2>
-        <OrdersPanel siteId={siteId} forecast={forecast.data} forecastError={forecast.error} canManage={canManage} />
-      </section>
+      {!stock.isPending && (
+        <section aria-labelledby="forecast" className="flex flex-col gap-2">
+          <h2 id="forecast" className="text-xl font-bold">Forecast, next {FORECAST_WEEKS} weeks</h2>
+          {forecast.isPending ? <Loading what="the forecast" /> : forecast.error ? <ErrorPanel error={forecast.error} retry={() => forecast.refetch()} /> : <ForecastPanel key={siteId} forecast={forecast.data} />}
+        </section>
+      )}
+      {!stock.isPending && !forecast.isPending && (
+        <section aria-labelledby="orders" className="flex flex-col gap-2">
+          <h2 id="orders" className="text-xl font-bold">Orders</h2>
+          <OrdersPanel siteId={siteId} forecast={forecast.data} forecastError={forecast.error} canManage={canManage} />
+        </section>
+      )}
     </article>
   );
 }
