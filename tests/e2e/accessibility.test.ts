@@ -197,6 +197,20 @@ describe.skipIf(!hasBrowser)('every main screen passes axe-core’s WCAG 2.2 A a
       await page.close();
     });
 
+    it('parts and stock, as the manager and as a technician', async () => {
+      const page = await as('imogen@saltmarsh.test');
+      await go(page, '/parts');
+      await check(page, 'parts and stock (manager)', (p) => p.getByRole('heading', { name: 'Orders', level: 2 }).waitFor());
+      // A part's chart open: the lazily loaded chart and its words are checked too.
+      await page.getByRole('table', { name: /Forecast need per week/ }).locator('button[aria-pressed]').first().click();
+      await check(page, 'parts forecast chart', (p) => p.locator('section[aria-labelledby="forecast-part"] svg.recharts-surface').first().waitFor());
+      await page.close();
+      const tech = await as('tomasz@saltmarsh.test');
+      await go(tech, '/parts');
+      await check(tech, 'parts and stock (technician)', (p) => p.getByRole('heading', { name: 'Orders', level: 2 }).waitFor());
+      await tech.close();
+    });
+
     it('the plan board, bookings and the workshop', async () => {
       const page = await as('imogen@saltmarsh.test');
       await go(page, '/plan');
