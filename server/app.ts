@@ -10,6 +10,7 @@ import { DbSessionStore } from './auth/session-store';
 import { createPassport } from './auth/passport';
 import { csrfProtection, refuseCrossSite } from './middleware/csrf';
 import { apiNotFound, errorHandler } from './middleware/error-handler';
+import { idempotency } from './middleware/idempotency';
 import { sessionLifetime } from './middleware/session-lifetime';
 import { assertEveryRouteRuled } from './route-table';
 import { healthRoutes } from './routes/health';
@@ -144,6 +145,8 @@ export function createApp(deps: AppDeps): Express {
   api.use(passport.session());
   api.use(refuseCrossSite);
   api.use(csrfProtection(deps.jobToken));
+  // A tablet that lost an answer sends the change again with the same key: it is applied once.
+  api.use(idempotency(ctx));
 
   api.use('/health', healthRoutes(ctx));
   api.use('/auth', authRoutes(ctx, passport));

@@ -9,6 +9,8 @@ export const ERROR_CODES = [
   'csrf_failed',
   'payload_too_large',
   'needs_confirmation',
+  'key_reused',
+  'in_progress',
   'setup_required',
   'unavailable',
   'internal',

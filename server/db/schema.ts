@@ -157,6 +157,28 @@ export const sessions = pgTable(
 );
 
 /**
+ * The stored answer of an unsafe request sent with an Idempotency-Key, kept a day per person and key:
+ * a repeat with the same body gets the same answer again and changes nothing; `status` null while
+ * the first request is still being worked on.
+ */
+export const idempotentRequests = pgTable(
+  'idempotent_requests',
+  {
+    userId: uuid('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    key: text('key').notNull(),
+    /** SHA-256 of the method, the path and the body as sent. */
+    fingerprint: text('fingerprint').notNull(),
+    method: text('method').notNull(),
+    path: text('path').notNull(),
+    status: integer('status'),
+    contentType: text('content_type'),
+    body: text('body'),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.userId, t.key] }), index('idempotent_requests_created').on(t.createdAt)],
+);
+
+/**
  * A counter every write to the fleet's tables moves on (statement triggers, see the migrations),
  * in the writing transaction: a cached answer read at version n is good while the counter says n,
  * on every app instance sharing the database.

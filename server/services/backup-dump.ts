@@ -21,7 +21,8 @@ export const JSON_FORMAT = 'lashline-backup';
 // The data version counter stays the live database's own: the restore's writes move it on, so no
 // app instance keeps serving answers it cached before the restore.
 const KEPT = new Set(['data_versions']);
-export const NOT_RESTORED: ReadonlySet<string> = new Set(['sessions', ...KEPT]);
+// Sessions and the stored answers of repeated requests belong to the running server, not to the data.
+export const NOT_RESTORED: ReadonlySet<string> = new Set(['sessions', 'idempotent_requests', ...KEPT]);
 const CHUNK = 5000;
 
 const orderBy = (t: TableInfo) => (t.key.length ? t.key.map(quote).join(', ') : `${quote(t.name)}::text`);

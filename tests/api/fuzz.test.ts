@@ -25,7 +25,7 @@ beforeAll(async () => {
 afterAll(() => t.close());
 
 async function totalRows() {
-  const { rows } = (await t.database.db.execute(sql`select table_name from information_schema.tables where table_schema = 'public' and table_name not in ('sessions', 'audit_log', '__drizzle_migrations')`)) as unknown as { rows: { table_name: string }[] };
+  const { rows } = (await t.database.db.execute(sql`select table_name from information_schema.tables where table_schema = 'public' and table_name not in ('sessions', 'audit_log', 'idempotent_requests', '__drizzle_migrations')`)) as unknown as { rows: { table_name: string }[] };
   const q = rows.map((r) => `(select count(*) from "${r.table_name}")`).join(' + ');
   const res = (await t.database.db.execute(sql.raw(`select ${q} as n`))) as unknown as { rows: { n: string | number }[] };
   return Number(res.rows[0].n);
@@ -37,6 +37,7 @@ const hostile = fc.oneof(
 );
 const value = fc.oneof(hostile, fc.integer(), fc.double(), fc.boolean(), fc.constant(null), fc.array(hostile, { maxLength: 3 }));
 const body = fc.oneof(fc.dictionary(fc.oneof(hostile, fc.constantFrom('odometer', 'email', 'password', 'version', 'readings', 'siteId', 'status', 'name', 'csv')), value, { maxKeys: 6 }), fc.jsonValue());
+const idempotencyKey = fc.option(fc.oneof(fc.uuid(), fc.stringMatching(/^[ -~]{0,20}$/)), { nil: null });
 const segment = fc.oneof(hostile.filter((s) => s.length > 0), fc.uuid(), fc.constant('00000000-0000-0000-0000-000000000000'));
 
 describe('hostile input on every route', () => {
@@ -45,7 +46,8 @@ describe('hostile input on every route', () => {
     let cases = 0;
     for (const r of routes) {
       await fc.assert(
-        fc.asyncProperty(fc.array(segment, { minLength: 3, maxLength: 3 }), fc.dictionary(fc.string({ maxLength: 12 }), hostile, { maxKeys: 4 }), body, fc.boolean(), async (segs, query, payload, asManager) => {
+        // Half the unsafe requests carry an Idempotency-Key, well-formed or not, as a tablet's queue sends them.
+        fc.asyncProperty(fc.array(segment, { minLength: 3, maxLength: 3 }), fc.dictionary(fc.string({ maxLength: 12 }), hostile, { maxKeys: 4 }), body, fc.boolean(), idempotencyKey, async (segs, query, payload, asManager, key) => {
           let i = 0;
           const path = r.path.replace(/:[a-zA-Z]+/g, () => encodeURIComponent(segs[i++ % segs.length]));
           const qs = new URLSearchParams(query).toString();
@@ -53,13 +55,27 @@ describe('hostile input on every route', () => {
           const who = asManager ? manager : admin;
           const method = r.method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete';
           const before = method === 'get' ? 0 : await totalRows();
-          const res = method === 'get' ? await who.get(url) : await who[method](url).set('content-type', 'application/json').send(JSON.stringify(payload));
+          const send = () => {
+            const req = who[method](url).set('content-type', 'application/json');
+            if (key !== null) req.set('Idempotency-Key', key);
+            return req.send(JSON.stringify(payload));
+          };
+          const res = method === 'get' ? await who.get(url) : await send();
           cases++;
           expect(res.status, `${r.method} ${url}`).toBeLessThan(500);
           if (res.status >= 400) {
             expect(ERROR_CODES, `${r.method} ${url} → ${res.status}`).toContain(res.body?.error?.code);
             expect(typeof res.body.error.message).toBe('string');
             if (method !== 'get') expect(await totalRows(), `${r.method} ${url} wrote on refusal`).toBe(before);
+          }
+          // The same request with the same key again: the same answer, and nothing more written.
+          if (method !== 'get' && key !== null && res.status < 500) {
+            const rows = await totalRows();
+            const again = await send();
+            if (again.status !== 401 && again.status !== 403 && again.status !== 429) {
+              expect(again.status, `${r.method} ${url} replayed`).toBe(res.status);
+              expect(await totalRows(), `${r.method} ${url} applied twice`).toBe(rows);
+            }
           }
         }),
         { numRuns: RUNS },
