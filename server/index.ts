@@ -116,8 +116,19 @@ function serveBuiltClient(app: Express) {
   app.use('/assets', express.static(`${dist}/assets`, { index: false, immutable: true, maxAge: '365d' }));
   // A file an older page asks for after an update: say it is gone rather than send the page.
   app.use('/assets', (_req, res) => res.status(404).type('text/plain').send('Not found: reload the page to get the current version.'));
-  app.use(express.static(dist, { index: false, maxAge: '1h' }));
-  app.get('/{*splat}', (_req, res) => res.sendFile(`${dist}/index.html`));
+  // The service worker, its manifest and the page are asked for afresh each time: that is how a
+  // tablet learns a new version exists.
+  const fresh = new Set(['/sw.js', '/manifest.webmanifest', '/index.html']);
+  app.use(
+    express.static(dist, {
+      index: false,
+      maxAge: '1h',
+      setHeaders: (res, path) => {
+        if (fresh.has(path.slice(dist.length).replaceAll('\\', '/'))) res.setHeader('Cache-Control', 'no-cache');
+      },
+    }),
+  );
+  app.get('/{*splat}', (_req, res) => res.sendFile(`${dist}/index.html`, { headers: { 'Cache-Control': 'no-cache' } }));
 }
 
 async function mountVite(app: Express, httpServer: ReturnType<typeof createServer>) {

@@ -5,6 +5,14 @@ import '@fontsource-variable/roboto-flex/standard.css';
 import './styles.css';
 import { AppProvider } from './app/provider';
 import { AppRouter } from './app/router';
+import { offerUpdate } from './lib/offline/updates';
+
+// The installable shell (production builds only): the service worker keeps the client on the device.
+if (import.meta.env.PROD && 'serviceWorker' in navigator) {
+  void import('virtual:pwa-register').then(({ registerSW }) => {
+    const update = registerSW({ onNeedRefresh: () => offerUpdate(() => void update(true)) });
+  });
+}
 
 createRoot(document.getElementById('root')!).render(
   <StrictMode>

@@ -1,7 +1,13 @@
-import { QueryCache, QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { QueryCache, QueryClient } from '@tanstack/react-query';
+import { PersistQueryClientProvider } from '@tanstack/react-query-persist-client';
 import { useState, type ReactNode } from 'react';
 import { ApiError } from '../lib/api-client';
 import { Toaster, toast } from '../components/ui/toast';
+import { KEPT_FOR_MS, keptOffline, queryPersister } from '../lib/offline/device-store';
+
+declare const __LASHLINE_BUILD__: string | undefined;
+/** Answers kept by another build of the client may not fit this one's screens: they are dropped. */
+const BUILD = typeof __LASHLINE_BUILD__ === 'string' ? __LASHLINE_BUILD__ : 'dev';
 
 function makeClient() {
   const client: QueryClient = new QueryClient({
@@ -14,6 +20,8 @@ function makeClient() {
     defaultOptions: {
       queries: {
         staleTime: 30_000,
+        // Kept on the device for reading offline (IndexedDB): as long as they are kept there.
+        gcTime: KEPT_FOR_MS,
         retry: (n, e) => !(e instanceof ApiError && e.status >= 400 && e.status < 500) && n < 2,
         throwOnError: (e) => e instanceof ApiError && e.status >= 500,
       },
@@ -25,9 +33,18 @@ function makeClient() {
 export function AppProvider({ children }: { children: ReactNode }) {
   const [client] = useState(makeClient);
   return (
-    <QueryClientProvider client={client}>
+    <PersistQueryClientProvider
+      client={client}
+      persistOptions={{
+        persister: queryPersister,
+        maxAge: KEPT_FOR_MS,
+        buster: BUILD,
+        // Only answers that arrived whole, of the kinds a tablet reads offline.
+        dehydrateOptions: { shouldDehydrateQuery: (q) => q.state.status === 'success' && keptOffline(q.queryKey) },
+      }}
+    >
       {children}
       <Toaster />
-    </QueryClientProvider>
+    </PersistQueryClientProvider>
   );
 }

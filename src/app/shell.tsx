@@ -4,17 +4,31 @@ import { authQueries, useLogout } from '../features/auth/api';
 import { ROLE_LABELS } from '../../shared/roles';
 import { Loading } from '../components/ui/states';
 import { navFor } from './nav';
+import { OfflineBar } from './offline-bar';
+import { UpdateOffer } from './update-offer';
+import { useQueue } from '../lib/offline/queue';
+import type { SessionUser } from '../../shared/schemas/auth';
 
 export function Shell() {
   const me = useQuery(authQueries.me());
-  const logout = useLogout();
-  const navigate = useNavigate();
   const location = useLocation();
   // The plan board shows two weeks side by side: it takes the whole width of a workshop screen.
   const wide = location.pathname === '/plan';
   if (me.isPending) return <div className="p-6"><Loading what="your account" /></div>;
   if (!me.data) return <Navigate to="/sign-in" replace state={{ from: location.pathname }} />;
-  const user = me.data;
+  return <SignedIn user={me.data} wide={wide} />;
+}
+
+function SignedIn({ user, wide }: { user: SessionUser; wide: boolean }) {
+  const logout = useLogout(user.id);
+  const navigate = useNavigate();
+  const queue = useQueue();
+  const signOut = () => {
+    const unsent = queue.changes.filter((c) => c.userId === user.id).length;
+    // A shared tablet keeps no one's data after they sign out: what has not been sent goes too.
+    if (unsent && !window.confirm(`${unsent === 1 ? 'One change made on this device has' : `${unsent} changes made on this device have`} not been sent. Signing out deletes ${unsent === 1 ? 'it' : 'them'} from this device. Sign out anyway?`)) return;
+    logout.mutate(undefined, { onSettled: () => navigate('/sign-in', { replace: true }) });
+  };
   return (
     <div className="min-h-screen">
       <header className="no-print bg-ink text-paper">
@@ -40,13 +54,15 @@ export function Shell() {
             <button
               type="button"
               className="min-h-tap rounded-card border-2 border-paper/40 px-3 font-semibold hover:bg-ink-soft"
-              onClick={() => logout.mutate(undefined, { onSettled: () => navigate('/sign-in', { replace: true }) })}
+              onClick={signOut}
             >
               Sign out
             </button>
           </div>
         </div>
       </header>
+      <UpdateOffer />
+      <OfflineBar user={user} />
       <main className={`mx-auto px-4 py-6 ${wide ? 'max-w-none' : 'max-w-7xl'}`}>
         <Outlet context={user} />
       </main>

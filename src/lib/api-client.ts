@@ -1,5 +1,7 @@
 import type { ZodType, z } from 'zod';
 import type { ApiErrorBody, ErrorCode, ErrorDetail } from '../../shared/errors';
+import { IDEMPOTENCY_HEADER } from '../../shared/domain/idempotency';
+import { newKey } from './offline/key';
 
 export class ApiError extends Error {
   constructor(
@@ -40,8 +42,19 @@ function withQuery(url: string, q?: Query) {
   return s ? `${url}?${s}` : url;
 }
 
-async function send(method: string, url: string, body?: unknown, retried = false, keepalive = false): Promise<unknown> {
+interface SendOptions {
+  keepalive?: boolean;
+  /** The change's Idempotency-Key: the same on every try of it, so the server applies it once. */
+  key?: string;
+  retried?: boolean;
+}
+
+async function send(method: string, url: string, body?: unknown, opts: SendOptions = {}): Promise<unknown> {
+  const { keepalive = false, retried = false } = opts;
   const headers: Record<string, string> = { accept: 'application/json' };
+  // Every change carries a key of its own; a retry below (a new security token) sends the same one.
+  const key = method === 'GET' ? undefined : (opts.key ?? newKey());
+  if (key) headers[IDEMPOTENCY_HEADER] = key;
   if (method !== 'GET') headers['x-csrf-token'] = await token();
   if (body !== undefined && !(body instanceof FormData)) headers['content-type'] = 'application/json';
   let res: Response;
@@ -64,7 +77,7 @@ async function send(method: string, url: string, body?: unknown, retried = false
     // The token belongs to a session that has changed (signed in elsewhere, expired): get a new one once.
     if (err?.code === 'csrf_failed' && !retried) {
       csrfToken = null;
-      return send(method, url, body, true, keepalive);
+      return send(method, url, body, { keepalive, key, retried: true });
     }
     throw new ApiError(res.status, err?.code ?? 'internal', err?.message ?? `The server answered ${res.status}.`, err?.details);
   }
@@ -82,8 +95,10 @@ export const api = {
     return schema ? schema.parse(data) : (data as z.infer<S>);
   },
   put: async <S extends ZodType>(url: string, body: unknown, schema?: S, opts: { keepalive?: boolean } = {}): Promise<z.infer<S>> => {
-    const data = await send('PUT', url, body, false, opts.keepalive);
+    const data = await send('PUT', url, body, { keepalive: opts.keepalive });
     return schema ? schema.parse(data) : (data as z.infer<S>);
   },
   delete: (url: string) => send('DELETE', url),
+  /** One try of a change that may be tried again with the same key (the device's queue). */
+  write: (method: 'POST' | 'PUT' | 'PATCH' | 'DELETE', url: string, body: unknown, key: string) => send(method, url, body, { key }),
 };

@@ -1,7 +1,11 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api, ApiError, setCsrfToken } from '../../lib/api-client';
+import { deviceDel, deviceGet, deviceSet, queryPersister } from '../../lib/offline/device-store';
+import { dropChangesOf } from '../../lib/offline/queue';
 import { LoginResultSchema, MeSchema, type Login, type Setup } from '../../../shared/schemas/auth';
+
+const SIGNED_OUT_KEY = 'lashline.signed-out';
 
 export const authQueries = {
   all: () => ['auth'] as const,
@@ -9,6 +13,14 @@ export const authQueries = {
     queryOptions({
       queryKey: [...authQueries.all(), 'me'],
       queryFn: async () => {
+        // Signed out while offline: the server's session ends before anyone is let in again.
+        if (await deviceGet<boolean>(SIGNED_OUT_KEY)) {
+          await api.post('/api/auth/logout', {}).catch((e: unknown) => {
+            if (!(e instanceof ApiError && e.status === 401)) throw e;
+          });
+          await deviceDel(SIGNED_OUT_KEY);
+          return null;
+        }
         try {
           return (await api.get('/api/auth/me', MeSchema)).user;
         } catch (e) {
@@ -48,14 +60,28 @@ export function useAcceptInvite() {
   });
 }
 
-export function useLogout() {
+/**
+ * Signs out and clears what this device holds for the person: the answers kept for reading offline
+ * and their waiting changes (the screen warns first). Without a connection the server is told as
+ * soon as there is one, before anyone can sign in again.
+ */
+export function useLogout(userId: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: () => api.post('/api/auth/logout', {}),
-    onSettled: () => {
+    mutationFn: async () => {
+      try {
+        await api.post('/api/auth/logout', {});
+      } catch (e) {
+        if (e instanceof ApiError && e.code === 'network') await deviceSet(SIGNED_OUT_KEY, true);
+        else throw e;
+      }
+    },
+    onSettled: async () => {
       setCsrfToken(null);
       qc.clear();
       qc.setQueryData(authQueries.me().queryKey, null);
+      await dropChangesOf(userId);
+      await queryPersister.removeClient();
     },
   });
 }

@@ -7,7 +7,7 @@ import { useDraft } from '../../../lib/use-draft';
 import { useMe } from '../../../lib/use-me';
 import { CheckInSchema, type CheckIn } from '../../../../shared/schemas/due';
 import type { BikeSummary } from '../../../../shared/schemas/bikes';
-import { useCheckIn, type CheckInResult } from '../api';
+import { useCheckIn, type CheckInOutcome } from '../api';
 import { DefectFields } from './defect-fields';
 import { OdometerField, parseReading } from './odometer-field';
 
@@ -23,14 +23,14 @@ export interface HandOutCheck {
   onAnswer: (goesOut: boolean) => void;
 }
 
-export function CheckInForm({ bike, onDone, handOut }: { bike: BikeSummary; onDone: (r: CheckInResult, defect: boolean) => void; handOut?: HandOutCheck }) {
+export function CheckInForm({ bike, onDone, handOut }: { bike: BikeSummary; onDone: (r: CheckInOutcome, defect: boolean) => void; handOut?: HandOutCheck }) {
   const me = useMe();
   const today = todayIso();
   const [draft, setDraft, clearDraft] = useDraft(`check-in.${bike.id}`, BLANK);
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [asking, setAsking] = useState(false);
   const [answered, setAnswered] = useState(false);
-  const checkIn = useCheckIn(bike.id);
+  const checkIn = useCheckIn(bike, me.id);
   const set = (patch: Partial<typeof BLANK>) => {
     setDraft({ ...draft, ...patch });
     if (checkIn.error) checkIn.reset();

@@ -2,9 +2,9 @@ import { useState } from 'react';
 import { useSearchParams } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
 import { Empty, ErrorPanel, Loading, PageHeader, SafetyNote } from '../../../components/ui/states';
-import { checkInQueries, type CheckInResult } from '../api';
+import { checkInQueries } from '../api';
 import { BikeFinder } from '../components/bike-finder';
-import { CheckInBike } from '../components/check-in-bike';
+import { CheckInBike, type CheckInDone } from '../components/check-in-bike';
 import type { DefectExtra } from '../components/check-in-verdict';
 
 /** The counter's screen: find the bike, type the odometer, see at once whether it may go out. */
@@ -12,7 +12,7 @@ export function CheckInRoute({ defectExtra }: { defectExtra?: DefectExtra } = {}
   const [params, setParams] = useSearchParams();
   // The chosen bike lives in the address, so a reload comes back to the same bike and its draft.
   const bikeId = params.get('bike');
-  const [result, setResult] = useState<{ data: CheckInResult; defect: boolean } | null>(null);
+  const [result, setResult] = useState<CheckInDone | null>(null);
   const bikes = useQuery(checkInQueries.bikes());
   const pick = (id: string | null) => {
     setResult(null);
@@ -24,7 +24,7 @@ export function CheckInRoute({ defectExtra }: { defectExtra?: DefectExtra } = {}
     <div className="mx-auto flex max-w-4xl flex-col gap-5">
       <PageHeader title="Check-in" />
       {bikeId ? (
-        <CheckInBike bikeId={bikeId} result={result?.data.bike.id === bikeId ? result : null} onDone={(data, defect) => { setResult({ data, defect }); window.scrollTo(0, 0); }} onBack={() => pick(null)} defectExtra={defectExtra} />
+        <CheckInBike bikeId={bikeId} result={result?.bikeId === bikeId ? result : null} onDone={(outcome, defect) => { setResult({ bikeId, outcome, defect }); window.scrollTo(0, 0); }} onBack={() => pick(null)} defectExtra={defectExtra} />
       ) : bikes.isPending ? (
         <Loading what="the bikes at your sites" />
       ) : bikes.error ? (
