@@ -3,10 +3,10 @@ import { Link } from 'react-router-dom';
 import { useQueryClient, type QueryClient } from '@tanstack/react-query';
 import { Button } from '../components/ui/button';
 import { useOnline } from '../lib/offline/online';
-import { dismiss, flush, loadQueue, useQueue, waitingOf } from '../lib/offline/queue';
+import { dismiss, flush, loadQueue, resend, useQueue, waitingOf } from '../lib/offline/queue';
 import type { SessionUser } from '../../shared/schemas/auth';
 
-const RETRY_MS = 20_000;
+const RETRY_MS = 10_000;
 const clock = (iso: string | number) => new Date(iso).toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit' });
 const changes = (n: number) => `${n} ${n === 1 ? 'change' : 'changes'}`;
 
@@ -25,7 +25,7 @@ function useShownAsOf(qc: QueryClient) {
   );
 }
 
-/** Sends the person's waiting changes on sign-in, when the connection comes back, and every 20 s while any wait. */
+/** Sends the person's waiting changes on sign-in, when the connection comes back, and every 10 s while any wait. */
 export function useQueueSender(user: SessionUser) {
   const qc = useQueryClient();
   const online = useOnline();
@@ -92,7 +92,10 @@ export function OfflineBar({ user }: { user: SessionUser }) {
                   <span>
                     <strong>{c.label}</strong> (made {clock(c.madeAt)}): {c.problem}
                   </span>
-                  {c.href && <Link to={c.href} className="font-semibold text-accent underline">Put it right</Link>}
+                  {c.code === 'needs_confirmation' && (
+                    <Button onClick={() => void resend(c.id, { ...(c.body as object), confirmLargeJump: true }).then(() => flush(user.id, qc))}>The reading is right: send it again</Button>
+                  )}
+                  {c.href && <Link to={c.href} className="font-semibold text-accent underline">Open the bike</Link>}
                   <Button kind="secondary" onClick={() => void dismiss(c.id)}>Dismiss</Button>
                 </li>
               ))}

@@ -7,6 +7,20 @@ import { LoginResultSchema, MeSchema, type Login, type Setup } from '../../../sh
 
 const SIGNED_OUT_KEY = 'lashline.signed-out';
 
+/**
+ * Ends on the server a session that was signed out on this device without a connection. True when
+ * there was one to end. Called on start, when the connection comes back, and before asking who is
+ * signed in.
+ */
+export async function settleSignOut(): Promise<boolean> {
+  if (!(await deviceGet<boolean>(SIGNED_OUT_KEY).catch(() => false))) return false;
+  await api.post('/api/auth/logout', {}).catch((e: unknown) => {
+    if (!(e instanceof ApiError && (e.status === 401 || e.status === 403))) throw e;
+  });
+  await deviceDel(SIGNED_OUT_KEY);
+  return true;
+}
+
 export const authQueries = {
   all: () => ['auth'] as const,
   me: () =>
@@ -14,13 +28,7 @@ export const authQueries = {
       queryKey: [...authQueries.all(), 'me'],
       queryFn: async () => {
         // Signed out while offline: the server's session ends before anyone is let in again.
-        if (await deviceGet<boolean>(SIGNED_OUT_KEY)) {
-          await api.post('/api/auth/logout', {}).catch((e: unknown) => {
-            if (!(e instanceof ApiError && e.status === 401)) throw e;
-          });
-          await deviceDel(SIGNED_OUT_KEY);
-          return null;
-        }
+        if (await settleSignOut()) return null;
         try {
           return (await api.get('/api/auth/me', MeSchema)).user;
         } catch (e) {
@@ -68,6 +76,8 @@ export function useAcceptInvite() {
 export function useLogout(userId: string) {
   const qc = useQueryClient();
   return useMutation({
+    // Signing out works without a connection: it is not held back until one comes.
+    networkMode: 'always',
     mutationFn: async () => {
       try {
         await api.post('/api/auth/logout', {});

@@ -23,8 +23,9 @@ export interface QueuedChange {
   href?: string;
   madeAt: string;
   state: 'waiting' | 'refused';
-  /** The server's reason, for a refused change. */
+  /** The server's reason, for a refused change, and its code (e.g. needs_confirmation). */
   problem?: string;
+  code?: string;
 }
 
 export interface QueueState {
@@ -83,7 +84,7 @@ export async function dismiss(id: string) {
 
 /** A refused change sent again as a new change (e.g. once the reading is confirmed). */
 export async function resend(id: string, body: unknown) {
-  await save(state.changes.map((c) => (c.id === id ? { ...c, id: newKey(), body, state: 'waiting' as const, problem: undefined } : c)));
+  await save(state.changes.map((c) => (c.id === id ? { ...c, id: newKey(), body, state: 'waiting' as const, problem: undefined, code: undefined } : c)));
 }
 
 /** Drops one person's changes (signing out on a shared tablet). */
@@ -124,7 +125,8 @@ export async function flush(userId: string, qc: QueryClient) {
         const o = outcomeOf(e);
         if (o === 'sign-in') update({ needsSignIn: true });
         if (o !== 'refused') break;
-        await save(state.changes.map((c) => (c.id === next.id ? { ...c, state: 'refused' as const, problem: (e as ApiError).message } : c)));
+        const err = e as ApiError;
+        await save(state.changes.map((c) => (c.id === next.id ? { ...c, state: 'refused' as const, problem: err.message, code: err.code } : c)));
       }
     }
   } finally {

@@ -1,0 +1,125 @@
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { demoSession, fetchJson, hasBrowser, shotOnFailure, signIn } from './support';
+
+interface Bike { id: string; fleetNumber: string; status: string; latestOdometer: number; site: { name: string } }
+interface Reading { value: number; date: string }
+
+/** Waits for the service worker to control the page: from then on the shell opens without a network. */
+async function installed(page: Page) {
+  await page.evaluate(async () => {
+    await navigator.serviceWorker.ready;
+  });
+  if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload();
+  await expect.poll(() => page.evaluate(() => !!navigator.serviceWorker.controller), { timeout: 15_000 }).toBe(true);
+}
+
+async function checkInOffline(page: Page, bike: Bike, odometer: number) {
+  await page.getByLabel('Fleet number or registration').fill(bike.fleetNumber);
+  await page.getByRole('list', { name: 'Matching bikes' }).getByRole('button', { name: new RegExp(`^${bike.fleetNumber}\\b`) }).first().click();
+  await page.getByLabel('Odometer now').fill(String(odometer));
+  await page.getByRole('button', { name: 'Save check-in' }).click();
+  await page.getByRole('heading', { name: `${bike.fleetNumber}: saved on this device` }).waitFor();
+  await page.getByRole('button', { name: 'Next bike' }).click();
+}
+
+describe.skipIf(!hasBrowser)('the desk keeps checking bikes in when the wi-fi drops', () => {
+  const demo = demoSession();
+
+  it('queues three check-ins offline, keeps them over a reload, and sends each once when the connection is back', async () => {
+    const page = await demo.browser.newPage();
+    await shotOnFailure(page, 'offline-desk', async () => {
+      await signIn(page, demo.server.url, 'ruth@saltmarsh.test');
+      await page.getByLabel('Fleet number or registration').waitFor();
+      await installed(page);
+      // The desk's list of bikes is on the device once the check-in screen has shown it.
+      await page.getByRole('list', { name: 'Matching bikes' }).waitFor();
+      const bikes = ((await fetchJson(page, '/api/bikes')).items as Bike[]).filter((b) => b.status === 'in_service').slice(0, 3);
+      expect(bikes).toHaveLength(3);
+      // The list is written to the device at most once a second.
+      await page.waitForTimeout(1500);
+
+      await demo.browser.setOffline(true);
+      await checkInOffline(page, bikes[0], bikes[0].latestOdometer + 12);
+      await checkInOffline(page, bikes[1], bikes[1].latestOdometer + 15);
+      // A slip of the finger: 5,000 km since the last check-in is judged (and refused) by the server on sending.
+      await checkInOffline(page, bikes[2], bikes[2].latestOdometer + 5000);
+      const status = page.getByTestId('offline-status');
+      await expect.poll(() => status.innerText()).toMatch(/Offline\. Showing what this device last loaded, as of \d\d:\d\d\./);
+      await expect.poll(() => page.getByTestId('waiting-count').innerText()).toMatch(/^3 changes wait on this device, sent when the connection is back/);
+
+      // Reloaded without a network: the shell comes from the service worker, the queue from the device.
+      await page.reload();
+      await page.getByRole('navigation', { name: 'Main' }).waitFor();
+      await expect.poll(() => page.getByTestId('waiting-count').innerText()).toMatch(/^3 changes wait on this device/);
+
+      // Back online, the first answer is lost on the way: the check-in is stored, the tablet never hears.
+      let dropped = 0;
+      await page.route('**/api/bikes/*/check-ins', async (route) => {
+        if (dropped++ === 0) {
+          await route.fetch();
+          return route.abort('connectionreset');
+        }
+        return route.continue();
+      });
+      await demo.browser.setOffline(false);
+      const cameBack = page.getByRole('region', { name: /One change came back/ });
+      await cameBack.waitFor({ timeout: 45_000 });
+      expect(await cameBack.innerText()).toContain(`Check-in of ${bikes[2].fleetNumber}`);
+      expect(await cameBack.innerText()).toMatch(/more than 1,000 km a day/);
+      await expect.poll(() => page.getByTestId('waiting-count').count(), { timeout: 30_000 }).toBe(0);
+      expect(dropped).toBeGreaterThanOrEqual(2);
+
+      // Each queued reading is stored exactly once, the refused one not at all.
+      const readingsOf = async (b: Bike) => ((await fetchJson(page, `/api/bikes/${b.id}`)).readings as Reading[]).map((r) => r.value);
+      expect((await readingsOf(bikes[0])).filter((v) => v === bikes[0].latestOdometer + 12)).toHaveLength(1);
+      expect((await readingsOf(bikes[1])).filter((v) => v === bikes[1].latestOdometer + 15)).toHaveLength(1);
+      expect((await readingsOf(bikes[2])).filter((v) => v === bikes[2].latestOdometer + 5000)).toHaveLength(0);
+
+      // The desk puts it right: the reading was a slip, so it is dismissed and nothing is left waiting.
+      await cameBack.getByRole('button', { name: 'Dismiss' }).click();
+      await expect.poll(() => page.getByRole('region', { name: /came back/ }).count()).toBe(0);
+    });
+    await page.close();
+  });
+
+  it('warns before signing out with changes unsent, and leaves nothing of the person on the device', async () => {
+    const page = await demo.browser.newPage();
+    await shotOnFailure(page, 'offline-sign-out', async () => {
+      await signIn(page, demo.server.url, 'ruth@saltmarsh.test');
+      await page.getByRole('list', { name: 'Matching bikes' }).waitFor();
+      const [bike] = ((await fetchJson(page, '/api/bikes')).items as Bike[]).filter((b) => b.status === 'in_service');
+      await page.waitForTimeout(1500);
+      await demo.browser.setOffline(true);
+      await checkInOffline(page, bike, bike.latestOdometer + 3);
+      const dialogs: string[] = [];
+      page.once('dialog', (d) => {
+        dialogs.push(d.message());
+        void d.accept();
+      });
+      await page.getByRole('button', { name: 'Sign out' }).click();
+      await page.getByLabel('E-mail').waitFor();
+      expect(dialogs[0]).toMatch(/One change made on this device has not been sent\. Signing out deletes it/);
+      // Nothing the person read or typed is left in the device's store.
+      const left = await page.evaluate(
+        () =>
+          new Promise<string>((resolve) => {
+            const open = indexedDB.open('lashline');
+            open.onsuccess = () => {
+              const tx = open.result.transaction('device', 'readonly');
+              const all = tx.objectStore('device').getAll();
+              all.onsuccess = () => resolve(JSON.stringify(all.result));
+            };
+          }),
+      );
+      expect(left).not.toContain(bike.fleetNumber);
+      expect(left).not.toContain('ruth@saltmarsh.test');
+      await demo.browser.setOffline(false);
+      // Back online, the session the server held is ended before anyone is let in.
+      await page.goto(`${demo.server.url}/check-in`);
+      await page.getByLabel('E-mail').waitFor();
+      expect((await page.evaluate(async () => (await fetch('/api/auth/me')).status))).toBe(401);
+    });
+    await page.close();
+  });
+});
