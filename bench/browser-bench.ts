@@ -116,3 +116,54 @@ export async function browserBench(base: string): Promise<ScreenFigures[]> {
     await rm(profile, { recursive: true, force: true });
   }
 }
+
+export interface OfflineCardFigures {
+  viewport: string;
+  /** Reload without a network → the card's first valve on screen, from navigation start; one per run. */
+  runsMs: number[];
+  valves: number;
+}
+
+/**
+ * A valve card opened with the network switched off, on a tablet's viewport: the shell comes from
+ * the service worker's precache and the card from the answers kept on the device.
+ */
+export async function offlineCardBench(base: string, runs = 5): Promise<OfflineCardFigures> {
+  const profile = await mkdtemp(join(tmpdir(), 'lashline-bench-'));
+  const viewport = { width: 1024, height: 768 };
+  const context = await chromium.launchPersistentContext(profile, { executablePath: CHROMIUM, headless: true, viewport, args: ARGS });
+  try {
+    const page = context.pages()[0] ?? (await context.newPage());
+    page.setDefaultTimeout(90_000);
+    await page.goto(`${base}/sign-in`);
+    await page.getByLabel('E-mail').fill(MANAGER_EMAIL);
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL(/\/this-week$/);
+    const taskId = await page.evaluate(async () => {
+      const items = (await (await fetch('/api/tasks?status=active')).json()).items as { id: string; category: string }[];
+      return items.find((t) => t.category === 'valves')?.id;
+    });
+    if (!taskId) throw new Error('No open valve task in the bench fleet.');
+    const valves = page.getByRole('region', { name: 'Valves' }).getByRole('heading');
+    await page.goto(`${base}/tasks/${taskId}/valves`);
+    await valves.first().waitFor();
+    await page.evaluate(() => navigator.serviceWorker.ready);
+    await page.reload();
+    await page.waitForFunction(() => !!navigator.serviceWorker.controller);
+    await valves.first().waitFor();
+    // Kept answers are written to the device at most once a second.
+    await page.waitForTimeout(1500);
+    await context.setOffline(true);
+    const runsMs: number[] = [];
+    for (let i = 0; i < runs; i++) {
+      await page.reload({ waitUntil: 'commit' });
+      await valves.first().waitFor();
+      runsMs.push(await page.evaluate(() => performance.now()));
+    }
+    return { viewport: `${viewport.width}×${viewport.height}`, runsMs, valves: await valves.count() };
+  } finally {
+    await context.close();
+    await rm(profile, { recursive: true, force: true });
+  }
+}

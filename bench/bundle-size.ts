@@ -11,6 +11,22 @@ export interface BundleFigures {
   jsGzip: number;
   jsBytes: number;
   cssGzip: number;
+  /** What the service worker keeps on the device for opening offline, fetched after the first load. */
+  precache: { files: number; bytes: number; gzip: number };
+}
+
+/** The files the generated service worker precaches, weighed as they travel (gzip). */
+function weighPrecache(outDir: string) {
+  const sw = readFileSync(join(outDir, 'sw.js'), 'utf8');
+  const urls = [...new Set([...sw.matchAll(/url:"([^"]+)"/g)].map((m) => m[1]))];
+  let bytes = 0;
+  let gzip = 0;
+  for (const u of urls) {
+    const buf = readFileSync(join(outDir, u.replace(/^\//, '')));
+    bytes += buf.length;
+    gzip += gzipSync(buf).length;
+  }
+  return { files: urls.length, bytes, gzip };
 }
 
 /** Builds the client into its own folder (dist/ stays as it is) and weighs what index.html loads first. */
@@ -39,5 +55,6 @@ export function buildAndWeigh(outDir: string): BundleFigures {
     jsGzip: files.reduce((s, f) => s + f.gzip, 0),
     jsBytes: files.reduce((s, f) => s + f.bytes, 0),
     cssGzip: css.map(weigh).reduce((s, f) => s + f.gzip, 0),
+    precache: weighPrecache(outDir),
   };
 }

@@ -3,7 +3,7 @@ import { join } from 'node:path';
 import { benchArgs, BENCH_DIR, DATA_ROOT, dataDirFor, type BenchArgs } from './args';
 import { describeGeneration, generateFleet, type GenerateReport } from './generate';
 import { buildAndWeigh, type BundleFigures } from './bundle-size';
-import { browserBench, type ScreenFigures } from './browser-bench';
+import { browserBench, offlineCardBench, type OfflineCardFigures, type ScreenFigures } from './browser-bench';
 import { apiPhase, partsPhase, scanPhase, type ApiFigures, type PartsFigures, type ScanFigures } from './phases';
 import { figureRows } from './figures';
 import { figuresTable, load, machine, phasesTable, type Phase } from './report';
@@ -31,6 +31,7 @@ export interface Results {
   plan?: PlanFigures;
   parts?: PartsFigures;
   bundle?: BundleFigures;
+  offlineCard?: OfflineCardFigures;
   screens?: ScreenFigures[];
   memory?: { start: Memory; end: Memory; afterGc: Memory };
   phases: Phase[];
@@ -93,6 +94,7 @@ async function main() {
       // then the forecast and the stock answers; the screens below include the parts screen.
       res.parts = await timed(res.phases, `Parts forecast and stock, ${bikes.toLocaleString('en-GB')} bikes`, () => partsPhase(w));
       if (!args.skipClient) res.screens = await timed(res.phases, 'Chromium: sign in, /fleet, /this-week, /plan, /parts', () => browserBench(w.url));
+      if (!args.skipClient) res.offlineCard = await timed(res.phases, 'Chromium, tablet viewport: a valve card opened offline', () => offlineCardBench(w.url));
       res.memory = { start: w.startMemory, end: await w.call<Memory>('memory'), afterGc: await w.call<Memory>('memoryAfterGc') };
     }, main ? dist : undefined);
   }

@@ -40,8 +40,12 @@ export function AppProvider({ children }: { children: ReactNode }) {
         maxAge: KEPT_FOR_MS,
         buster: BUILD,
         // Only answers that arrived whole, of the kinds a tablet reads offline.
-        dehydrateOptions: { shouldDehydrateQuery: (q) => q.state.status === 'success' && keptOffline(q.queryKey) },
+        // "Nobody signed in" is never kept: it would turn the next person away on a reload.
+        dehydrateOptions: { shouldDehydrateQuery: (q) => q.state.status === 'success' && q.state.data != null && keptOffline(q.queryKey) },
       }}
+      // What the device kept is shown at once, and read again from the server straight away: online,
+      // nothing on screen stays as old as the device's copy.
+      onSuccess={() => void client.invalidateQueries()}
     >
       {children}
       <Toaster />

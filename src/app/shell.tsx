@@ -7,6 +7,7 @@ import { navFor } from './nav';
 import { OfflineBar } from './offline-bar';
 import { UpdateOffer } from './update-offer';
 import { useQueue } from '../lib/offline/queue';
+import { draftCount } from '../lib/use-draft';
 import type { SessionUser } from '../../shared/schemas/auth';
 
 export function Shell() {
@@ -25,8 +26,13 @@ function SignedIn({ user, wide }: { user: SessionUser; wide: boolean }) {
   const queue = useQueue();
   const signOut = () => {
     const unsent = queue.changes.filter((c) => c.userId === user.id).length;
+    const drafts = draftCount();
     // A shared tablet keeps no one's data after they sign out: what has not been sent goes too.
-    if (unsent && !window.confirm(`${unsent === 1 ? 'One change made on this device has' : `${unsent} changes made on this device have`} not been sent. Signing out deletes ${unsent === 1 ? 'it' : 'them'} from this device. Sign out anyway?`)) return;
+    const what = [
+      unsent && `${unsent === 1 ? 'One change made on this device has' : `${unsent} changes made on this device have`} not been sent`,
+      drafts && `${drafts === 1 ? 'one form is' : `${drafts} forms are`} half filled in`,
+    ].filter(Boolean);
+    if (what.length && !window.confirm(`${what.join(', and ')}. Signing out deletes ${unsent + drafts === 1 ? 'it' : 'them'} from this device. Sign out anyway?`.replace(/^./, (c) => c.toUpperCase()))) return;
     logout.mutate(undefined, { onSettled: () => navigate('/sign-in', { replace: true }) });
   };
   return (

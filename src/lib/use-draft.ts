@@ -53,3 +53,13 @@ export function hasDraft(key: string) {
     return false;
   }
 }
+
+const draftKeys = () => Array.from({ length: localStorage.length }, (_, i) => localStorage.key(i)).filter((k): k is string => !!k?.startsWith(PREFIX));
+
+/** How many unsaved forms this device holds (check-ins, sign-offs, valve cards). */
+export const draftCount = () => draftKeys().length;
+
+/** Forgets every unsaved form on this device (signing out of a shared tablet). */
+export function forgetDrafts() {
+  for (const k of draftKeys()) localStorage.removeItem(k);
+}

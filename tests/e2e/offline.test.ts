@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
+import sharp from 'sharp';
 import { demoSession, fetchJson, hasBrowser, shotOnFailure, signIn } from './support';
 
 interface Bike { id: string; fleetNumber: string; status: string; latestOdometer: number; site: { name: string } }
@@ -25,6 +26,35 @@ async function checkInOffline(page: Page, bike: Bike, odometer: number) {
 
 describe.skipIf(!hasBrowser)('the desk keeps checking bikes in when the wi-fi drops', () => {
   const demo = demoSession();
+
+  // Installability as the browser itself judges it (W3C Web App Manifest; Chromium's install
+  // criteria: name, start_url, display standalone, a 192 and a 512 px icon, a service worker that controls the page).
+  it('is installable: a valid manifest with its icons, and a service worker in control of the page', async () => {
+    const page = await demo.browser.newPage();
+    await shotOnFailure(page, 'offline-install', async () => {
+      await page.goto(`${demo.server.url}/sign-in`);
+      const href = await page.locator('link[rel="manifest"]').getAttribute('href');
+      const res = await page.request.get(new URL(href!, demo.server.url).toString());
+      expect(res.headers()['content-type']).toMatch(/application\/manifest\+json/);
+      const m = (await res.json()) as { name: string; short_name: string; start_url: string; display: string; theme_color: string; background_color: string; icons: { src: string; sizes: string; type: string; purpose?: string }[] };
+      expect(m).toMatchObject({ name: 'Lashline', short_name: 'Lashline', start_url: '/', display: 'standalone' });
+      expect(m.theme_color).toMatch(/^#[0-9a-f]{6}$/i);
+      for (const size of ['192x192', '512x512']) expect(m.icons.some((i) => i.sizes === size && i.type === 'image/png')).toBe(true);
+      expect(m.icons.some((i) => i.purpose === 'maskable')).toBe(true);
+      for (const icon of m.icons) {
+        const img = await page.request.get(new URL(icon.src, demo.server.url).toString());
+        const meta = await sharp(await img.body()).metadata();
+        expect(`${meta.width}x${meta.height}`, icon.src).toBe(icon.sizes);
+      }
+      await installed(page);
+      const sw = await page.evaluate(async () => {
+        const r = await navigator.serviceWorker.getRegistration();
+        return { scope: r?.scope, state: r?.active?.state, controlled: !!navigator.serviceWorker.controller };
+      });
+      expect(sw).toEqual({ scope: `${demo.server.url}/`, state: 'activated', controlled: true });
+    });
+    await page.close();
+  });
 
   it('queues three check-ins offline, keeps them over a reload, and sends each once when the connection is back', async () => {
     const page = await demo.browser.newPage();
@@ -119,6 +149,61 @@ describe.skipIf(!hasBrowser)('the desk keeps checking bikes in when the wi-fi dr
       await page.goto(`${demo.server.url}/check-in`);
       await page.getByLabel('E-mail').waitFor();
       expect((await page.evaluate(async () => (await fetch('/api/auth/me')).status))).toBe(401);
+    });
+    await page.close();
+  });
+
+  it('lets a technician fill a valve card offline and sign it off: stock and the next valve check change exactly once', async () => {
+    const page = await demo.browser.newPage();
+    await page.setViewportSize({ width: 1024, height: 768 });
+    await shotOnFailure(page, 'offline-valve-card', async () => {
+      await signIn(page, demo.server.url, 'tomasz@saltmarsh.test');
+      await page.getByRole('navigation', { name: 'Main' }).waitFor();
+      const tasks = (await fetchJson(page, '/api/tasks?status=active')).items as { id: string; fleetNumber: string; category: string; bikeId: string; siteId: string }[];
+      const task = tasks.find((x) => x.fleetNumber === 'SM-01' && x.category === 'valves')!;
+      const used260 = async () => ((await fetchJson(page, `/api/stock/shims?siteId=${task.siteId}`)).items as { sizeMm: number; condition: string; count: number }[]).find((x) => x.sizeMm === 2.6 && x.condition === 'used')?.count ?? 0;
+      const valveDue = async () => (await fetchJson(page, `/api/bikes/${task.bikeId}`)).due.find((d: { category: string }) => d.category === 'valves') as { lastDoneDate: string | null; dueAtKm: number };
+      const stockBefore = await used260();
+      const dueBefore = await valveDue();
+      await page.goto(`${demo.server.url}/tasks/${task.id}/valves`);
+      await page.getByRole('heading', { name: 'Cylinder 1 intake 1' }).waitFor();
+      await installed(page);
+      await page.getByRole('button', { name: /Start: bike into the workshop/ }).click();
+      await page.getByRole('heading', { name: 'Cylinder 1 intake 1' }).waitFor();
+      await page.waitForTimeout(1500);
+
+      // The wi-fi drops; the card opens again from the device.
+      await demo.browser.setOffline(true);
+      await page.reload();
+      await page.getByRole('heading', { name: 'Cylinder 1 intake 1' }).waitFor();
+      await page.getByTestId('offline-status').waitFor();
+      const labels = ['Cylinder 1 intake 1', 'Cylinder 1 intake 2', 'Cylinder 1 exhaust 1', 'Cylinder 1 exhaust 2', 'Cylinder 2 intake 1', 'Cylinder 2 intake 2', 'Cylinder 2 exhaust 1', 'Cylinder 2 exhaust 2'];
+      for (const label of labels) {
+        const valve = page.getByRole('region', { name: label, exact: true });
+        await valve.getByText('Measured value', { exact: true }).click();
+        const found = label === 'Cylinder 2 exhaust 1' ? '0.18' : label.includes('intake') ? '0.15' : '0.25';
+        await valve.getByLabel('As found, measured').fill(found);
+        await valve.getByLabel('Shim marking read off').fill('260');
+      }
+      const tight = page.getByRole('region', { name: 'Cylinder 2 exhaust 1', exact: true });
+      // New shim = 2.60 + 0.18 − 0.25 = 2.53 mm, rounded to the 2.55 mm that exists (common practice), worked out offline.
+      await tight.getByText(/2\.55/).first().waitFor();
+      await tight.getByLabel('Shim fitted (empty if unchanged)').fill('255');
+      await tight.getByLabel(/As left, measured after adjusting/).fill('0.23');
+      // Signed off without a connection: it waits on the device.
+      await page.getByRole('button', { name: 'Sign off the valve check' }).click();
+      await page.getByRole('heading', { name: 'SM-01: sign-off saved on this device' }).waitFor();
+      await expect.poll(() => page.getByTestId('waiting-count').innerText()).toMatch(/^1 change waits on this device/);
+
+      await demo.browser.setOffline(false);
+      await expect.poll(() => page.getByTestId('waiting-count').count(), { timeout: 30_000 }).toBe(0);
+      expect(await used260()).toBe(stockBefore + 1);
+      const dueAfter = await valveDue();
+      expect(dueAfter.lastDoneDate! > (dueBefore.lastDoneDate ?? '')).toBe(true);
+      expect(dueAfter.dueAtKm).toBeGreaterThan(dueBefore.dueAtKm);
+      // Sent once: another pass of the queue changes nothing more.
+      await page.waitForTimeout(1000);
+      expect(await used260()).toBe(stockBefore + 1);
     });
     await page.close();
   });

@@ -3,6 +3,7 @@ import { z } from 'zod';
 import { api, ApiError, setCsrfToken } from '../../lib/api-client';
 import { deviceDel, deviceGet, deviceSet, queryPersister } from '../../lib/offline/device-store';
 import { dropChangesOf } from '../../lib/offline/queue';
+import { forgetDrafts } from '../../lib/use-draft';
 import { LoginResultSchema, MeSchema, type Login, type Setup } from '../../../shared/schemas/auth';
 
 const SIGNED_OUT_KEY = 'lashline.signed-out';
@@ -92,6 +93,7 @@ export function useLogout(userId: string) {
       qc.setQueryData(authQueries.me().queryKey, null);
       await dropChangesOf(userId);
       await queryPersister.removeClient();
+      forgetDrafts();
     },
   });
 }

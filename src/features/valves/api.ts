@@ -1,6 +1,7 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../lib/api-client';
+import { writeOrQueue } from '../../lib/offline/queue';
 import { BikeDetailSchema } from '../../../shared/schemas/bikes';
 import { TaskSchema } from '../../../shared/schemas/tasks';
 import { BikeValvesSchema, RollupSchema, ValveCardSchema, type CloseValveTask } from '../../../shared/schemas/valves';
@@ -40,9 +41,23 @@ export function useStartValveTask(taskId: string) {
   return useMutation({ mutationFn: () => api.post(`/api/tasks/${taskId}/start`, {}, TaskResult), onSettled: invalidate });
 }
 
-export function useCloseValveTask(taskId: string) {
+/**
+ * Signing off sends at once with a connection; without one the sign-off waits on the device (with
+ * its key) and is sent when the connection is back, judged then by the server's rules.
+ */
+export function useCloseValveTask(task: { id: string; fleetNumber: string }, userId: string) {
   const invalidate = useInvalidateAfterTask();
-  return useMutation({ mutationFn: (body: CloseValveTask) => api.post(`/api/tasks/${taskId}/valve-close`, body, TaskResult), onSuccess: invalidate });
+  return useMutation({
+    networkMode: 'always',
+    mutationFn: (body: CloseValveTask) =>
+      writeOrQueue(
+        { userId, method: 'POST', url: `/api/tasks/${task.id}/valve-close`, body, label: `Valve check sign-off of ${task.fleetNumber}`, href: `/tasks/${task.id}/valves` },
+        (d) => TaskResult.parse(d),
+      ),
+    onSuccess: (r) => {
+      if (!r.queued) invalidate();
+    },
+  });
 }
 
 export interface ServerDraft {

@@ -27,7 +27,8 @@ export function ValveCardScreen({ card }: { card: ValveCard }) {
   const qc = useQueryClient();
   const canWork = me.role === 'technician' || me.role === 'manager';
   const { draft, update, sync, clear, restoredFrom } = useCardDraft(card);
-  const close = useCloseValveTask(card.task.id);
+  const close = useCloseValveTask(card.task, me.id);
+  const [queued, setQueued] = useState(false);
   const [attempted, setAttempted] = useState(false);
   const [reason, setReason] = useState('');
   const [errors, setErrors] = useState<SignOffErrors | null>(null);
@@ -42,6 +43,19 @@ export function ValveCardScreen({ card }: { card: ValveCard }) {
   const labels = useMemo(() => new Map(card.valves.map((v) => [v.valveId, v.label])), [card.valves]);
   const plan = useMemo(() => engineShimPlan(card, readings), [card, readings]);
   if (done) return <SignedOff task={done} />;
+  if (queued)
+    return (
+      <section aria-labelledby="sign-off-queued" className="flex flex-col gap-3 rounded-card border-4 border-ink-line bg-paper-raised p-5">
+        <h2 id="sign-off-queued" className="text-2xl font-bold"><span aria-hidden>◌ </span>{card.task.fleetNumber}: sign-off saved on this device</h2>
+        <p className="text-lg">
+          There is no connection, so the sign-off waits here and is sent by itself when the connection is back. Lashline then books the shims and sets
+          the next valve check; if it cannot take the sign-off, it comes back to you at the top of the screen with the reason, and the readings are still
+          on this card.
+        </p>
+        <p className="font-semibold">The bike stays in the workshop until the sign-off has been taken.</p>
+        <Link to="/tasks" className="self-start font-semibold text-accent underline">Back to my tasks</Link>
+      </section>
+    );
   const open = card.task.status === 'open' || card.task.status === 'in_progress';
   const setEntry = (next: ValveEntry) => update((d) => ({ ...d, entries: d.entries.map((e) => (e.valveId === next.valveId ? next : e)) }));
   const problems = (id: string) => [...(attempted ? entryProblems(readings.get(id)!) : []), ...(errors?.byValve.get(id) ?? [])];
@@ -68,9 +82,11 @@ export function ValveCardScreen({ card }: { card: ValveCard }) {
     setClientErrors({});
     close.mutate(parsed.data, {
       onSuccess: (res) => {
+        // Queued: the readings stay on the device until the server has taken the sign-off.
+        if (res.queued) return setQueued(true);
         clear();
         clearUsedParts();
-        setDone(res.task);
+        setDone(res.data.task);
       },
       onError: (err) => setErrors(signOffErrors(err, sent)),
     });
