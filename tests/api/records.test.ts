@@ -30,8 +30,9 @@ beforeAll(async () => {
     .insert(serviceRecords)
     .values([
       { bikeId: bike.id, serviceItemId: oil.id, date: '2025-03-01', odometerKm: 1000, doneBy: tech, notes: 'First service, oil "10W-40", filter\r\nand washer' },
-      { bikeId: bike.id, serviceItemId: valves.id, date: '2025-09-01', odometerKm: 6200, doneBy: tech, notes: 'Exhaust adjusted back to mid-spec.' },
-      { bikeId: bike.id, serviceItemId: tyres.id, date: '2025-09-01', odometerKm: 6200, doneBy: tech },
+      // Two services of one visit: signed off one after the other (one insert would give them the same time).
+      { bikeId: bike.id, serviceItemId: valves.id, date: '2025-09-01', odometerKm: 6200, doneBy: tech, notes: 'Exhaust adjusted back to mid-spec.', createdAt: new Date('2025-09-01T10:00:00Z') },
+      { bikeId: bike.id, serviceItemId: tyres.id, date: '2025-09-01', odometerKm: 6200, doneBy: tech, createdAt: new Date('2025-09-01T11:00:00Z') },
     ])
     .returning();
   const [vc] = await db.insert(valveChecks).values({ bikeId: bike.id, date: '2025-09-01', odometerKm: 6200, checkedBy: tech }).returning();

@@ -207,4 +207,38 @@ describe.skipIf(!hasBrowser)('the desk keeps checking bikes in when the wi-fi dr
     });
     await page.close();
   });
+
+  it('keeps a photo taken offline with its defect, and sends it to that defect after the check-in', async () => {
+    const page = await demo.browser.newPage();
+    await shotOnFailure(page, 'offline-defect-photo', async () => {
+      await signIn(page, demo.server.url, 'ruth@saltmarsh.test');
+      await page.getByRole('list', { name: 'Matching bikes' }).waitFor();
+      const bikes = ((await fetchJson(page, '/api/bikes')).items as Bike[]).filter((b) => b.status === 'in_service');
+      const bike = bikes[bikes.length - 1];
+      await page.waitForTimeout(1500);
+      await demo.browser.setOffline(true);
+      await page.getByLabel('Fleet number or registration').fill(bike.fleetNumber);
+      await page.getByRole('list', { name: 'Matching bikes' }).getByRole('button', { name: new RegExp(`^${bike.fleetNumber}\\b`) }).first().click();
+      await page.getByLabel('Odometer now').fill(String(bike.latestOdometer + 8));
+      await page.getByRole('button', { name: 'Report a defect' }).click();
+      await page.getByLabel('What does it concern?').selectOption('tyres');
+      await page.getByLabel('What is wrong?').fill('Front tyre cut on the sidewall');
+      await page.getByText('Safety-critical: take the bike out of service.').click();
+      await page.getByRole('button', { name: 'Save check-in' }).click();
+      await page.getByRole('heading', { name: `${bike.fleetNumber}: saved on this device` }).waitFor();
+      // Offline, the device itself says the bike must not go out.
+      await page.getByText(/You reported a safety-critical defect/).waitFor();
+      const photo = await sharp({ create: { width: 320, height: 240, channels: 3, background: '#555555' } }).jpeg().toBuffer();
+      await page.getByRole('region', { name: 'Photo of the defect' }).locator('input[type=file]').setInputFiles({ name: 'front-tyre.jpg', mimeType: 'image/jpeg', buffer: photo });
+      await page.getByText('One photo waits with the check-in: front-tyre.jpg.').waitFor();
+      await demo.browser.setOffline(false);
+      await expect.poll(() => page.getByTestId('waiting-count').count(), { timeout: 30_000 }).toBe(0);
+      const after = await fetchJson(page, `/api/bikes/${bike.id}`);
+      expect(after.bike.status).toBe('out_of_service');
+      const files = (await fetchJson(page, `/api/bikes/${bike.id}/attachments`)).items as { defectId: string | null; fileName?: string }[];
+      expect(files).toHaveLength(1);
+      expect(files[0].defectId).toBeTruthy();
+    });
+    await page.close();
+  });
 });

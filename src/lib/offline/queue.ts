@@ -23,6 +23,10 @@ export interface QueuedChange {
   href?: string;
   madeAt: string;
   state: 'waiting' | 'refused';
+  /** A file to send as multipart form data instead of a JSON body (a photo). */
+  upload?: { fields: Record<string, string>; file: Blob; name: string };
+  /** Photos taken offline with a check-in's defect: sent once the check-in has been taken. */
+  photos?: { file: Blob; name: string }[];
   /** The server's reason, for a refused change, and its code (e.g. needs_confirmation). */
   problem?: string;
   code?: string;
@@ -87,6 +91,38 @@ export async function resend(id: string, body: unknown) {
   await save(state.changes.map((c) => (c.id === id ? { ...c, id: newKey(), body, state: 'waiting' as const, problem: undefined, code: undefined } : c)));
 }
 
+/** Photos taken with a change still waiting (a defect's): they go once the change has been taken. */
+export async function attachPhotos(id: string, files: File[]) {
+  await loadQueue();
+  await save(state.changes.map((c) => (c.id === id ? { ...c, photos: [...(c.photos ?? []), ...files.map((f) => ({ file: f as Blob, name: f.name }))] } : c)));
+}
+
+/**
+ * What follows a change once the server has taken it: each photo taken with a check-in becomes an
+ * upload of its own to the bike, tied to the defect the check-in recorded.
+ */
+export function followUps(change: QueuedChange, answer: unknown): QueuedChange[] {
+  if (!change.photos?.length) return [];
+  const bikeId = /^\/api\/bikes\/([^/]+)\//.exec(change.url)?.[1];
+  if (!bikeId) return [];
+  const defectId = (answer as { defectId?: string | null } | null)?.defectId ?? null;
+  const fields: Record<string, string> = defectId ? { defectId } : {};
+  return change.photos.map((p, i) => ({
+    id: newKey(), userId: change.userId, method: 'POST' as const, url: `/api/bikes/${bikeId}/attachments`, body: null,
+    upload: { fields, file: p.file, name: p.name },
+    label: `Photo ${i + 1} of ${change.photos!.length} for the ${change.label.charAt(0).toLowerCase()}${change.label.slice(1)}`,
+    href: change.href, madeAt: change.madeAt, state: 'waiting' as const,
+  }));
+}
+
+function bodyOf(c: QueuedChange) {
+  if (!c.upload) return c.body;
+  const form = new FormData();
+  for (const [k, v] of Object.entries(c.upload.fields)) form.set(k, v);
+  form.set('file', c.upload.file, c.upload.name);
+  return form;
+}
+
 /** Drops one person's changes (signing out on a shared tablet). */
 export async function dropChangesOf(userId: string) {
   await loadQueue();
@@ -117,10 +153,11 @@ export async function flush(userId: string, qc: QueryClient) {
       const next = state.changes.find((c) => c.userId === userId && c.state === 'waiting');
       if (!next) break;
       try {
-        await api.write(next.method, next.url, next.body, next.id);
+        const answer = await api.write(next.method, next.url, bodyOf(next), next.id);
         sent++;
         state = { ...state, lastSentAt: new Date().toISOString() };
-        await save(state.changes.filter((c) => c.id !== next.id));
+        // Taken: it leaves the queue, and what follows from it (its photos) takes its place.
+        await save(state.changes.flatMap((c) => (c.id === next.id ? followUps(next, answer) : [c])));
       } catch (e) {
         const o = outcomeOf(e);
         if (o === 'sign-in') update({ needsSignIn: true });

@@ -8,6 +8,7 @@ import { ApiError } from '../../../lib/api-client';
 import type { BikeDetail, BikeSummary } from '../../../../shared/schemas/bikes';
 import { checkInQueries, type CheckInOutcome } from '../api';
 import { CheckInForm } from './check-in-form';
+import { QueuedPhotos } from './queued-photos';
 import { CheckInVerdict, type DefectExtra } from './check-in-verdict';
 import { handOutOutcome, handOutQuestion, useNextVisit, WorkshopNotice } from './workshop-notice';
 
@@ -15,12 +16,14 @@ export interface CheckInDone {
   bikeId: string;
   outcome: CheckInOutcome;
   defect: boolean;
+  /** The defect was reported as safety-critical: offline, the device says so before the server can. */
+  critical?: boolean;
 }
 
 interface Props {
   bikeId: string;
   result: CheckInDone | null;
-  onDone: (r: CheckInOutcome, defect: boolean) => void;
+  onDone: (r: CheckInOutcome, defect: boolean, critical: boolean) => void;
   defectExtra?: DefectExtra;
   onBack: () => void;
 }
@@ -72,8 +75,9 @@ function CheckInLoaded({ bike: { bike, ride }, fromList: listedOnly, result, onD
           cannot take it, it comes back to you at the top of the screen with the reason.
         </p>
         {/* What the device knew of the bike: the verdict on this reading comes when it is sent. */}
-        <RideVerdictPanel ride={ride} large />
+        <RideVerdictPanel ride={result.critical ? { mayRide: false, reasons: ['You reported a safety-critical defect: Lashline grounds the bike when the check-in arrives.', ...ride.reasons] } : ride} large />
         <p className="text-ink-soft">Whether the bike may go out is as this device last knew it. If in doubt, keep it back and ask the workshop.</p>
+        {result.defect && <QueuedPhotos changeId={result.outcome.id} />}
         <Button className="min-h-14 self-start text-lg" onClick={onBack}>Next bike</Button>
       </section>
     );

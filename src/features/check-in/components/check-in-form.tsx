@@ -23,7 +23,7 @@ export interface HandOutCheck {
   onAnswer: (goesOut: boolean) => void;
 }
 
-export function CheckInForm({ bike, onDone, handOut }: { bike: BikeSummary; onDone: (r: CheckInOutcome, defect: boolean) => void; handOut?: HandOutCheck }) {
+export function CheckInForm({ bike, onDone, handOut }: { bike: BikeSummary; onDone: (r: CheckInOutcome, defect: boolean, critical: boolean) => void; handOut?: HandOutCheck }) {
   const me = useMe();
   const today = todayIso();
   const [draft, setDraft, clearDraft] = useDraft(`check-in.${bike.id}`, BLANK);
@@ -52,7 +52,7 @@ export function CheckInForm({ bike, onDone, handOut }: { bike: BikeSummary; onDo
     checkIn.mutate(parsed.data satisfies CheckIn, {
       onSuccess: (r) => {
         clearDraft();
-        onDone(r, !!parsed.data.defect);
+        onDone(r, !!parsed.data.defect, !!parsed.data.defect?.safetyCritical);
       },
     });
   };

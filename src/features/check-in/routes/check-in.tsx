@@ -24,7 +24,7 @@ export function CheckInRoute({ defectExtra }: { defectExtra?: DefectExtra } = {}
     <div className="mx-auto flex max-w-4xl flex-col gap-5">
       <PageHeader title="Check-in" />
       {bikeId ? (
-        <CheckInBike bikeId={bikeId} result={result?.bikeId === bikeId ? result : null} onDone={(outcome, defect) => { setResult({ bikeId, outcome, defect }); window.scrollTo(0, 0); }} onBack={() => pick(null)} defectExtra={defectExtra} />
+        <CheckInBike bikeId={bikeId} result={result?.bikeId === bikeId ? result : null} onDone={(outcome, defect, critical) => { setResult({ bikeId, outcome, defect, critical }); window.scrollTo(0, 0); }} onBack={() => pick(null)} defectExtra={defectExtra} />
       ) : bikes.isPending ? (
         <Loading what="the bikes at your sites" />
       ) : bikes.error ? (
