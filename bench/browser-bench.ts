@@ -1,7 +1,7 @@
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { chromium, type Page } from 'playwright-core';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { DEMO_PASSWORD, MANAGER_EMAIL } from './args';
 import { installPageMetrics, pageScript, timeSortClick, type PageMetrics } from './page-metrics';
 
@@ -91,19 +91,25 @@ async function measure(page: Page, base: string, s: Screen): Promise<ScreenFigur
   };
 }
 
+/** A page signed in as the manager through the sign-in screen, on This week. */
+async function signedInPage(context: BrowserContext, base: string): Promise<Page> {
+  const page = context.pages()[0] ?? (await context.newPage());
+  page.setDefaultTimeout(90_000);
+  await page.goto(`${base}/sign-in`);
+  await page.getByLabel('E-mail').fill(MANAGER_EMAIL);
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/\/this-week$/);
+  return page;
+}
+
 /** Signs in as the manager through the sign-in screen, then opens each screen afresh. */
 export async function browserBench(base: string): Promise<ScreenFigures[]> {
   const profile = await mkdtemp(join(tmpdir(), 'lashline-bench-'));
   const context = await chromium.launchPersistentContext(profile, { executablePath: CHROMIUM, headless: true, viewport: { width: 1280, height: 900 }, args: ARGS });
   try {
     await context.addInitScript({ content: pageScript(installPageMetrics, FIRST_TABLES) });
-    const page = context.pages()[0] ?? (await context.newPage());
-    page.setDefaultTimeout(90_000);
-    await page.goto(`${base}/sign-in`);
-    await page.getByLabel('E-mail').fill(MANAGER_EMAIL);
-    await page.getByLabel('Password').fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.waitForURL(/\/this-week$/);
+    const page = await signedInPage(context, base);
     // The board signing in lands on has finished loading (it shows its rows once every part is in),
     // so each screen below is opened on a quiet server rather than behind the board's requests.
     await page.locator('tbody tr').first().waitFor({ timeout: 90_000 });
@@ -133,13 +139,7 @@ export async function offlineCardBench(base: string, runs = 5): Promise<OfflineC
   const viewport = { width: 1024, height: 768 };
   const context = await chromium.launchPersistentContext(profile, { executablePath: CHROMIUM, headless: true, viewport, args: ARGS });
   try {
-    const page = context.pages()[0] ?? (await context.newPage());
-    page.setDefaultTimeout(90_000);
-    await page.goto(`${base}/sign-in`);
-    await page.getByLabel('E-mail').fill(MANAGER_EMAIL);
-    await page.getByLabel('Password').fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.waitForURL(/\/this-week$/);
+    const page = await signedInPage(context, base);
     const taskId = await page.evaluate(async () => {
       const items = (await (await fetch('/api/tasks?status=active')).json()).items as { id: string; category: string }[];
       return items.find((t) => t.category === 'valves')?.id;

@@ -1,14 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { demoSession, fetchJson, hasBrowser, shotOnFailure, signIn } from './support';
-
-// Layout shifts as the browser reports them (Layout Instability API); CLS is their sum outside input.
-const recordShifts = `
-  window.__shifts = 0;
-  new PerformanceObserver((list) => {
-    for (const e of list.getEntries()) if (!e.hadRecentInput) window.__shifts += e.value;
-  }).observe({ type: 'layout-shift', buffered: true });
-`;
+import { demoSession, fetchJson, hasBrowser, layoutShifts, recordShifts, shotOnFailure, signIn } from './support';
 
 const FILTER = 'Oil filter, 250–400 cc';
 
@@ -41,7 +33,7 @@ describe.skipIf(!hasBrowser)('the parts person at Quay Street', () => {
       await page.waitForLoadState('networkidle');
       await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))));
       // web.dev Core Web Vitals: a CLS of 0.1 or less is "good".
-      expect(await page.evaluate(() => (window as unknown as { __shifts: number }).__shifts)).toBeLessThanOrEqual(0.1);
+      expect(await layoutShifts(page)).toBeLessThanOrEqual(0.1);
       // The part's chart, loaded on request: on hand against the cumulative need, with the week it runs out.
       await forecastRow.getByRole('button', { name: new RegExp(FILTER) }).click();
       const chart = page.getByRole('region', { name: new RegExp(FILTER) });

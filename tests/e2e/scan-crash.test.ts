@@ -48,7 +48,8 @@ async function startUntilScan(where: { dataDir?: string; databaseUrl?: string })
     const timer = setTimeout(() => reject(new Error(`The due scan did not start:\n${log}`)), 30_000);
     const onData = (b: Buffer) => {
       log += b.toString();
-      const m = /\[due-scan\] started for the slot of (\S+)/.exec(log);
+      // The server logs JSON lines: the slot ends at the message's closing quote.
+      const m = /\[due-scan\] started for the slot of ([^\s"]+)/.exec(log);
       if (m) {
         clearTimeout(timer);
         resolve({ slot: m[1], afterMs: Date.now() - listenedAt });
@@ -59,7 +60,7 @@ async function startUntilScan(where: { dataDir?: string; databaseUrl?: string })
   });
   const finished = new Promise<string>((resolve) => {
     const onData = () => {
-      const m = /\[due-scan\] (Scanned .*)/.exec(log);
+      const m = /\[due-scan\] (Scanned [^"\n]*)/.exec(log);
       if (m) resolve(m[1]);
     };
     server.proc.stdout!.on('data', onData);

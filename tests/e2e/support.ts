@@ -117,3 +117,30 @@ export function demoSession() {
 }
 
 export const fetchJson = (page: Page, url: string) => page.evaluate(async (u) => (await fetch(u)).json(), url);
+
+// Layout shifts as the browser reports them (Layout Instability API); CLS is their sum outside input.
+// Add with `page.addInitScript({ content: recordShifts })`, read with `layoutShifts(page)`.
+export const recordShifts = `
+  window.__shifts = 0;
+  new PerformanceObserver((list) => {
+    for (const e of list.getEntries()) if (!e.hadRecentInput) window.__shifts += e.value;
+  }).observe({ type: 'layout-shift', buffered: true });
+`;
+export const layoutShifts = (page: Page) => page.evaluate(() => (window as unknown as { __shifts: number }).__shifts);
+
+/**
+ * Types the demo's SM-01 valve card (a twin, shim under bucket): every valve within spec but
+ * cylinder 2 exhaust 1 at 0.18 mm, each read off a 2.60 mm shim. The tight valve's region is returned.
+ */
+export async function fillSm01ValveCard(page: Page) {
+  const labels = ['Cylinder 1 intake 1', 'Cylinder 1 intake 2', 'Cylinder 1 exhaust 1', 'Cylinder 1 exhaust 2', 'Cylinder 2 intake 1', 'Cylinder 2 intake 2', 'Cylinder 2 exhaust 1', 'Cylinder 2 exhaust 2'];
+  for (const label of labels) {
+    const valve = page.getByRole('region', { name: label, exact: true });
+    await valve.getByText('Measured value', { exact: true }).click();
+    // Exhaust 0.18 mm on cylinder 2 exhaust 1 is tighter than the 0.20–0.30 mm spec.
+    const found = label === 'Cylinder 2 exhaust 1' ? '0.18' : label.includes('intake') ? '0.15' : '0.25';
+    await valve.getByLabel('As found, measured').fill(found);
+    await valve.getByLabel('Shim marking read off').fill('260');
+  }
+  return page.getByRole('region', { name: 'Cylinder 2 exhaust 1', exact: true });
+}

@@ -1,13 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { demoSession, hasBrowser, shotOnFailure, signIn } from './support';
-
-// Layout shifts as the browser reports them (Layout Instability API); CLS is their sum outside input.
-const recordShifts = `
-  window.__shifts = 0;
-  new PerformanceObserver((list) => {
-    for (const e of list.getEntries()) if (!e.hadRecentInput) window.__shifts += e.value;
-  }).observe({ type: 'layout-shift', buffered: true });
-`;
+import { demoSession, hasBrowser, layoutShifts, recordShifts, shotOnFailure, signIn } from './support';
 
 describe.skipIf(!hasBrowser)('the manager opens This week', () => {
   const demo = demoSession();
@@ -26,7 +18,7 @@ describe.skipIf(!hasBrowser)('the manager opens This week', () => {
       await page.waitForLoadState('networkidle');
       await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))));
       // web.dev Core Web Vitals: a CLS of 0.1 or less is "good".
-      expect(await page.evaluate(() => (window as unknown as { __shifts: number }).__shifts)).toBeLessThanOrEqual(0.1);
+      expect(await layoutShifts(page)).toBeLessThanOrEqual(0.1);
     });
     await page.close();
   });

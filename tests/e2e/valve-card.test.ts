@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { demoSession, fetchJson, hasBrowser, shotOnFailure, signIn } from './support';
+import { demoSession, fetchJson, fillSm01ValveCard, hasBrowser, shotOnFailure, signIn } from './support';
 
 const json = fetchJson;
 
@@ -22,16 +22,7 @@ describe.skipIf(!hasBrowser)('a technician works a valve card on a Ridgeback', (
       await page.goto(`${demo.server.url}/tasks/${task.id}/valves`);
       await page.getByRole('heading', { name: 'Cylinder 1 intake 1' }).waitFor();
       await page.getByRole('button', { name: /Start: bike into the workshop/ }).click();
-      const labels = ['Cylinder 1 intake 1', 'Cylinder 1 intake 2', 'Cylinder 1 exhaust 1', 'Cylinder 1 exhaust 2', 'Cylinder 2 intake 1', 'Cylinder 2 intake 2', 'Cylinder 2 exhaust 1', 'Cylinder 2 exhaust 2'];
-      for (const label of labels) {
-        const valve = page.getByRole('region', { name: label, exact: true });
-        await valve.getByText('Measured value', { exact: true }).click();
-        // Exhaust 0.18 mm on cylinder 2 exhaust 1 is tighter than the 0.20–0.30 mm spec.
-        const found = label === 'Cylinder 2 exhaust 1' ? '0.18' : label.includes('intake') ? '0.15' : '0.25';
-        await valve.getByLabel('As found, measured').fill(found);
-        await valve.getByLabel('Shim marking read off').fill('260');
-      }
-      const tight = page.getByRole('region', { name: 'Cylinder 2 exhaust 1', exact: true });
+      const tight = await fillSm01ValveCard(page);
       // New shim = 2.60 + 0.18 − 0.25 = 2.53 mm; of the 0.05 mm series, 2.55 mm leaves 0.23 mm, nearest the middle (common practice).
       await tight.getByText(/2\.55/).first().waitFor();
       await page.getByText('Shim plan for the whole engine').waitFor();
