@@ -37,6 +37,9 @@ import { partRoutes } from './routes/parts';
 import type { BlobStore } from './storage/types';
 import { createMemoryBlobStore } from './storage/memory';
 import type { JobDeps } from '../jobs/types';
+import { randomUUID } from 'node:crypto';
+import { pinoHttp } from 'pino-http';
+import { log, setLogLevel } from './logger';
 
 export interface AppDeps {
   database: Database;
@@ -72,6 +75,7 @@ export interface AppContext {
 
 export function createApp(deps: AppDeps): Express {
   const { database, config } = deps;
+  setLogLevel(config.LOG_LEVEL);
   const ctx: AppContext = {
     database,
     config,
@@ -87,7 +91,7 @@ export function createApp(deps: AppDeps): Express {
       now: ctx.now,
       mail: deps.mail ?? { transport: () => { throw new Error('No mail transport is configured.'); }, from: config.MAIL_FROM },
       publicUrl: ctx.publicUrl(),
-      log: (line) => config.LOG_LEVEL === 'info' && console.log(line),
+      log: (line) => log.info(line),
     }),
   };
   const app = express();
@@ -122,6 +126,21 @@ export function createApp(deps: AppDeps): Express {
   app.use(compression());
 
   const api = express.Router();
+  // One line per API request at info, with a request id (the caller's X-Request-Id, or a new one)
+  // that every line the request logs carries, and that the answer names.
+  api.use(
+    pinoHttp({
+      logger: log,
+      genReqId: (req, res) => {
+        const given = req.headers['x-request-id'];
+        const id = typeof given === 'string' && /^[\w.-]{1,100}$/.test(given) ? given : randomUUID();
+        res.setHeader('X-Request-Id', id);
+        return id;
+      },
+      customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : 'info'),
+      serializers: { req: (r: { id: string; method: string; url: string }) => ({ id: r.id, method: r.method, url: r.url }), res: (r: { statusCode: number }) => ({ statusCode: r.statusCode }) },
+    }),
+  );
   api.use(express.json({ limit: '1mb' }));
   api.use(
     session({
@@ -176,7 +195,7 @@ export function createApp(deps: AppDeps): Express {
   deps.client?.(app);
   app.use(
     errorHandler((e, req) => {
-      if (config.LOG_LEVEL !== 'silent') console.error(`[error] ${req.method} ${req.originalUrl}`, e);
+      (req.log ?? log).error({ err: e, method: req.method, path: req.originalUrl }, 'Request failed');
     }),
   );
   assertEveryRouteRuled(app);

@@ -28,7 +28,7 @@ const ConfigSchema = z.object({
   DIGEST_CRON: z.string().default('0 7 * * 1'),
   MAIL_RETRY_CRON: z.string().default('* * * * *'),
   BOOKING_SYNC_CRON: z.string().default('*/15 * * * *'),
-  LOG_LEVEL: z.enum(['silent', 'error', 'info']).default('info'),
+  LOG_LEVEL: z.enum(['silent', 'error', 'warn', 'info', 'debug']).default('info'),
 });
 
 export type Config = z.infer<typeof ConfigSchema>;

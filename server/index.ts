@@ -17,6 +17,7 @@ import { startScheduler } from '../jobs';
 import { slotClaimer } from '../jobs/claim';
 import { updateLock } from './db/data-dir-lock';
 import { createBlobStore, uploadMaxBytesFromEnv } from './storage';
+import { log } from './logger';
 
 const args = new Set(process.argv.slice(2));
 const dev = args.has('--dev');
@@ -31,7 +32,8 @@ async function main() {
       unlock = lockDataDir(dataDir);
     } catch (e) {
       if (e instanceof DataDirLockedError) {
-        console.error(e.message);
+        // For whoever started it, on the terminal's error stream: this process never became a server.
+        process.stderr.write(`${e.message}\n`);
         process.exit(2);
       }
       throw e;
@@ -40,7 +42,7 @@ async function main() {
   const database = await openDatabase({ databaseUrl: config.DATABASE_URL, dataDir: config.DATABASE_URL ? undefined : dataDir });
   if (args.has('--demo') && (await needsSetup(database.db))) {
     const summary = await seedDemo(database.db, { password: config.DEMO_PASSWORD });
-    console.log(`Demo scenario loaded: ${summary}`);
+    log.info(`Demo scenario loaded: ${summary}`);
   }
   // Without an SMTP server, mail goes to the built-in catcher and shows on the admin's mail page.
   let catcher: MailCatcher | undefined;
@@ -67,12 +69,12 @@ async function main() {
   const where = config.DATABASE_URL ? 'PostgreSQL' : `embedded PGlite in ${dataDir}`;
   // Command-line jobs find the running server through the lock file and ask it to do the work.
   if (!config.DATABASE_URL) updateLock(dataDir, { port, host: config.HOST, jobToken });
-  console.log(`Lashline listening on http://${config.HOST}:${port} (${where})${catcher ? `; mail caught on 127.0.0.1:${catcher.port}` : ''}`);
+  log.info(`Lashline listening on http://${config.HOST}:${port} (${where})${catcher ? `; mail caught on 127.0.0.1:${catcher.port}` : ''}`);
 
   const scheduler =
     config.SCHEDULER === 'on'
       ? startScheduler(
-          { db: database.db, now: () => new Date(), mail: { transport: () => transport, from: config.MAIL_FROM }, publicUrl: config.PUBLIC_URL ?? `http://${config.HOST}:${port}`, log: (l) => console.log(l) },
+          { db: database.db, now: () => new Date(), mail: { transport: () => transport, from: config.MAIL_FROM }, publicUrl: config.PUBLIC_URL ?? `http://${config.HOST}:${port}`, log: (l) => log.info(l) },
           [
             { job: 'due-scan', cron: config.DUE_SCAN_CRON, timeZone: config.SCHEDULE_TZ, catchUp: true },
             { job: 'weekly-digest', cron: config.DIGEST_CRON, timeZone: config.SCHEDULE_TZ, catchUp: true },
@@ -87,9 +89,9 @@ async function main() {
   const stop = async (signal: string) => {
     if (stopping) return;
     stopping = true;
-    console.log(`${signal}: finishing requests in flight, then closing the database.`);
+    log.info(`${signal}: finishing requests in flight, then closing the database.`);
     const force = setTimeout(() => {
-      console.error('Requests still open after 10 s; closing anyway.');
+      log.warn('Requests still open after 10 s; closing anyway.');
       httpServer.closeAllConnections();
     }, 10_000);
     force.unref();
@@ -109,7 +111,7 @@ async function main() {
 function serveBuiltClient(app: Express) {
   const dist = resolve('dist');
   if (!existsSync(`${dist}/index.html`)) {
-    console.warn('No client build in dist/: run `npm run build` first. The API still answers under /api.');
+    log.warn('No client build in dist/: run `npm run build` first. The API still answers under /api.');
     return;
   }
   // Vite names built files by their content hash: a browser may keep them for good.
@@ -138,6 +140,6 @@ async function mountVite(app: Express, httpServer: ReturnType<typeof createServe
 }
 
 main().catch((e) => {
-  console.error(e instanceof Error ? e.message : e);
+  log.fatal(e instanceof Error ? { err: e } : { reason: e }, 'Lashline could not start.');
   process.exit(1);
 });

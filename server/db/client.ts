@@ -9,6 +9,7 @@ import { drizzle as drizzlePg } from 'drizzle-orm/node-postgres';
 import { migrate as migratePg } from 'drizzle-orm/node-postgres/migrator';
 import pg from 'pg';
 import * as schema from './schema';
+import { log } from '../logger';
 
 export type Db = PgDatabase<PgQueryResultHKT, typeof schema>;
 export type DbKind = 'pglite' | 'postgres';
@@ -82,7 +83,7 @@ export async function openDatabase(opts: OpenOptions): Promise<Database> {
     const pool = new pg.Pool({ connectionString: opts.databaseUrl, max: 10 });
     // An idle connection the server ends (restart, administrator command) is dropped from the pool
     // and replaced on the next query; without a listener it would end the process.
-    pool.on('error', (err) => console.warn(`[db] idle connection ended: ${err.message}`));
+    pool.on('error', (err) => log.warn({ err }, 'An idle database connection ended; it is dropped from the pool.'));
     const db = drizzlePg({ client: pool, schema }) as unknown as Db;
     if (opts.migrate !== false) await migratePg(db as never, { migrationsFolder: MIGRATIONS_FOLDER });
     return { db, kind: 'postgres', pool, close: () => pool.end() };

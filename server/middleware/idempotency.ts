@@ -6,6 +6,7 @@ import { idempotentRequests } from '../db/schema';
 import { HttpError } from '../http-error';
 import type { SessionUser } from '../../shared/schemas/auth';
 import { IDEMPOTENCY_HEADER, IDEMPOTENCY_KEY_PATTERN, IDEMPOTENCY_KEEP_HOURS } from '../../shared/domain/idempotency';
+import { log } from '../logger';
 
 const UNSAFE = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 const KEEP_MS = IDEMPOTENCY_KEEP_HOURS * 3_600_000;
@@ -101,20 +102,20 @@ export function idempotency(ctx: AppContext) {
 function keepAnswer(req: Request, res: Response, store: (status: number, contentType: string | null, body: string | null) => Promise<void>) {
   let done = false;
   const send = res.send.bind(res);
-  const log = (e: unknown) => console.error(`[idempotency] ${req.method} ${req.originalUrl}: the answer could not be kept`, e);
+  const failed = (err: unknown) => log.error({ err, method: req.method, path: req.originalUrl }, 'The answer of an idempotent request could not be kept.');
   res.send = (body?: unknown) => {
     if (done) return send(body);
     done = true;
     const text = body === undefined || body === null ? null : Buffer.isBuffer(body) ? body.toString('utf8') : typeof body === 'string' ? body : JSON.stringify(body);
     const type = res.getHeader('Content-Type');
     void store(res.statusCode, typeof type === 'string' ? type : text === null ? null : 'application/json; charset=utf-8', text)
-      .catch(log)
+      .catch(failed)
       .finally(() => send(body));
     return res;
   };
   res.on('finish', () => {
     if (done) return;
     done = true;
-    void store(res.statusCode === 204 ? 204 : 500, null, null).catch(log);
+    void store(res.statusCode === 204 ? 204 : 500, null, null).catch(failed);
   });
 }

@@ -20,6 +20,7 @@ import { canSeeSite } from '../../shared/domain/policies';
 import { SELF_REMOVE_HOURS, canRemoveAttachment, inlineDisposition } from '../../shared/domain/attachments';
 import { bikeSite, checkLinks, findAttachment, listAttachments, toAttachment } from '../services/attachments';
 import { THUMB_MIME, inspectFile } from '../services/attachment-files';
+import { log } from '../logger';
 
 export interface AttachmentRouteOptions {
   /** The largest file accepted, in bytes (8 MB unless set). */
@@ -32,7 +33,7 @@ export function attachmentRoutes(ctx: AppContext, store: BlobStore, opts: Attach
   const r = Router();
   const db = ctx.database.db;
   const maxBytes = opts.maxBytes ?? DEFAULT_UPLOAD_MAX_BYTES;
-  const log = (line: string, e: unknown) => ctx.config.LOG_LEVEL !== 'silent' && console.error(line, e);
+  const logError = (line: string, err: unknown) => log.error({ err }, line);
 
   // Another site's bike answers as missing, so its existence is not given away.
   async function visibleBike(req: Request) {
@@ -152,7 +153,7 @@ export function attachmentRoutes(ctx: AppContext, store: BlobStore, opts: Attach
       await audit(tx, { userId: user.id, action: 'delete', entity: 'attachment', entityId: a.id, changes: { bikeId: a.bikeId, mime: a.mime, bytes: a.bytes } });
     });
     // The record is gone first: a file left behind by a failed delete is never served.
-    for (const key of [a.storageKey, a.thumbKey]) if (key) await store.delete(key).catch((e) => log(`[storage] could not delete ${key}`, e));
+    for (const key of [a.storageKey, a.thumbKey]) if (key) await store.delete(key).catch((e) => logError(`Could not delete the stored file ${key}`, e));
     res.status(204).end();
   });
 

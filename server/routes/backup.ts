@@ -12,6 +12,7 @@ import { BackupFormatSchema, RESTORE_MAX_BYTES } from '../../shared/schemas/impo
 import { HttpError, badRequest } from '../http-error';
 import type { BlobStore } from '../storage/types';
 import { restore, writeBackup, type BackupDeps } from '../services/backup';
+import { log } from '../logger';
 
 const stamp = (d: Date) => d.toISOString().slice(0, 16).replace(/[-:]/g, '').replace('T', '-');
 const GB = 1024 * 1024 * 1024;
@@ -37,7 +38,7 @@ export function backupRoutes(ctx: AppContext, store: BlobStore) {
   const deps: BackupDeps = {
     database,
     store,
-    log: (line, e) => ctx.config.LOG_LEVEL !== 'silent' && console.error(line, e ?? ''),
+    log: (line, err) => log.error({ err }, line),
   };
 
   // One archive: the database (its data directory on PGlite; the portable JSON dump on PostgreSQL or

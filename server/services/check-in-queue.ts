@@ -5,6 +5,7 @@ import type { BikeSummary } from '../../shared/schemas/bikes';
 import { batchable, recordCheckIn, recordCheckIns, type CheckInJob, type CheckInOutcome } from './check-in';
 import { getBike, listBikes } from './bikes';
 import { dueItemsFromComputed, dueItemsOf, openTasks } from './due-list';
+import { log } from '../logger';
 
 type Result = Awaited<ReturnType<typeof recordCheckIn>>;
 
@@ -103,7 +104,9 @@ export class CheckInQueue {
         let outcomes: CheckInOutcome[] | null = null;
         try {
           outcomes = await recordCheckIns(this.db, batch.map((w) => w.job), this.now());
-        } catch {
+        } catch (err) {
+          // Written one by one below, each with its own answer; the batch's failure is not lost.
+          log.warn({ err, checkIns: batch.length }, 'A batch of check-ins failed as a whole; each is written on its own.');
           outcomes = null;
         }
         if (outcomes) {

@@ -1,4 +1,5 @@
 import type { Db } from '../db/client';
+import { log } from '../logger';
 
 /** What changed, so the planner re-plans only what it touches. */
 export interface PlanChange {
@@ -63,7 +64,7 @@ async function drain(db: Db, queue: Queue) {
     try {
       await replanner!(db, change, now);
     } catch (err) {
-      console.error(`[plan] re-plan after ${change.why} failed; the previous plan stays:`, err);
+      log.error({ err, why: change.why }, 'Re-plan failed; the previous plan stays.');
     }
     for (const d of done) d();
   }
