@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { desc, eq } from 'drizzle-orm';
 import type { AppContext } from '../app';
 import { requireRole } from '../middleware/auth';
-import { validate } from '../middleware/validate';
+import { validated } from '../middleware/validate';
 import { caughtMail, outbox } from '../db/schema';
 import { IdParamsSchema } from '../../shared/schemas/common';
 import { notFound } from '../http-error';
@@ -38,8 +38,8 @@ export function adminMailRoutes(ctx: AppContext) {
   });
 
   // The message as a reader shows it: headers, plain text and HTML parts.
-  r.get('/:id', requireRole('admin'), validate({ params: IdParamsSchema }), async (req, res) => {
-    const { id } = req.valid.params as { id: string };
+  r.get('/:id', requireRole('admin'), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
+    const { id } = v.params;
     const [m] = await db.select().from(caughtMail).where(eq(caughtMail.id, id));
     if (!m) throw notFound('That message');
     // Loaded when a message is first opened, not with every server.
@@ -56,16 +56,16 @@ export function adminMailRoutes(ctx: AppContext) {
         html: typeof parsed.html === 'string' ? parsed.html : null,
       },
     });
-  });
+  }));
 
-  r.get('/:id/raw', requireRole('admin'), validate({ params: IdParamsSchema }), async (req, res) => {
-    const { id } = req.valid.params as { id: string };
+  r.get('/:id/raw', requireRole('admin'), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
+    const { id } = v.params;
     const [m] = await db.select().from(caughtMail).where(eq(caughtMail.id, id));
     if (!m) throw notFound('That message');
     // RFC 5322 as received, so any mail reader can open it.
     res.setHeader('Content-Type', 'message/rfc822');
     res.setHeader('Content-Disposition', `inline; filename="${id}.eml"`);
     res.send(m.raw);
-  });
+  }));
   return r;
 }

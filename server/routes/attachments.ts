@@ -4,7 +4,7 @@ import type { AppContext } from '../app';
 import type { BlobStore } from '../storage/types';
 import { newBlobKey } from '../storage/keys';
 import { currentUser, requireRole, signedIn } from '../middleware/auth';
-import { validate } from '../middleware/validate';
+import { validate, validated } from '../middleware/validate';
 import { singleUpload } from '../middleware/upload';
 import { attachments } from '../db/schema';
 import { audit } from '../audit';
@@ -126,24 +126,24 @@ export function attachmentRoutes(ctx: AppContext, store: BlobStore, opts: Attach
     },
   );
 
-  r.get('/bikes/:id/attachments', signedIn(), validate({ params: IdParamsSchema, query: AttachmentListQuerySchema }), async (req, res) => {
+  r.get('/bikes/:id/attachments', signedIn(), ...validated({ params: IdParamsSchema, query: AttachmentListQuerySchema }, async (req, res, v) => {
     await visibleBike(req);
-    const rows = await listAttachments(db, idOf(req), req.valid.query as AttachmentFields);
+    const rows = await listAttachments(db, idOf(req), v.query);
     res.json({ items: rows.map(toAttachment) });
-  });
+  }));
 
-  r.get('/attachments/:id', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
+  r.get('/attachments/:id', signedIn(), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
     const { a } = await visibleAttachment(req);
     await serve(res, a.storageKey, a.mime, inlineDisposition(a.originalName, a.mime));
-  });
+  }));
 
-  r.get('/attachments/:id/thumb', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
+  r.get('/attachments/:id/thumb', signedIn(), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
     const { a } = await visibleAttachment(req);
     if (!a.thumbKey) throw notFound('A preview of this file');
     await serve(res, a.thumbKey, THUMB_MIME, inlineDisposition(a.originalName, THUMB_MIME, '-preview'));
-  });
+  }));
 
-  r.delete('/attachments/:id', requireRole('desk', 'technician', 'manager'), validate({ params: IdParamsSchema }), async (req, res) => {
+  r.delete('/attachments/:id', requireRole('desk', 'technician', 'manager'), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
     const user = currentUser(req);
     const { a, bikeSiteId } = await visibleAttachment(req);
     if (!canRemoveAttachment(user, { siteId: bikeSiteId, uploadedBy: a.uploadedBy, createdAt: a.createdAt }, ctx.now()))
@@ -155,7 +155,7 @@ export function attachmentRoutes(ctx: AppContext, store: BlobStore, opts: Attach
     // The record is gone first: a file left behind by a failed delete is never served.
     for (const key of [a.storageKey, a.thumbKey]) if (key) await store.delete(key).catch((e) => logError(`Could not delete the stored file ${key}`, e));
     res.status(204).end();
-  });
+  }));
 
   return r;
 }

@@ -3,11 +3,11 @@ import type { PassportStatic } from 'passport';
 import { rateLimit } from 'express-rate-limit';
 import type { AppContext } from '../app';
 import { publicRoute, signedIn } from '../middleware/auth';
-import { validate } from '../middleware/validate';
+import { validate, validated } from '../middleware/validate';
 import { csrf } from '../middleware/csrf';
 import { HttpError } from '../http-error';
 import { AcceptInviteSchema } from '../../shared/schemas/users';
-import { LoginSchema, SetupSchema, type SessionUser, type Setup } from '../../shared/schemas/auth';
+import { LoginSchema, SetupSchema, type SessionUser } from '../../shared/schemas/auth';
 import { SIGN_IN_REFUSED } from '../auth/passport';
 import { acceptInvite, needsSetup, runFirstSetup } from '../services/accounts';
 
@@ -70,16 +70,16 @@ export function authRoutes(ctx: AppContext, passport: Passport) {
     res.json({ needed: await needsSetup(ctx.database.db) });
   });
 
-  r.post('/setup', publicRoute(), perAddress, validate({ body: SetupSchema }), async (req, res, next) => {
-    const user = await runFirstSetup(ctx.database.db, req.valid.body as Setup);
+  r.post('/setup', publicRoute(), perAddress, ...validated({ body: SetupSchema }, async (req, res, v, next) => {
+    const user = await runFirstSetup(ctx.database.db, v.body);
     signIn(req, res, next, user, 201);
-  });
+  }));
 
-  r.post('/accept-invite', publicRoute(), perAddress, validate({ body: AcceptInviteSchema }), async (req, res, next) => {
-    const body = req.valid.body as { token: string; password: string };
+  r.post('/accept-invite', publicRoute(), perAddress, ...validated({ body: AcceptInviteSchema }, async (req, res, v, next) => {
+    const body = v.body;
     const user = await acceptInvite(ctx.database.db, body.token, body.password, ctx.now());
     signIn(req, res, next, user);
-  });
+  }));
   return r;
 }
 

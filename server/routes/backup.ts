@@ -7,7 +7,7 @@ import { pipeline } from 'node:stream/promises';
 import { Router, type Request } from 'express';
 import type { AppContext } from '../app';
 import { currentUser, requireRole } from '../middleware/auth';
-import { validate } from '../middleware/validate';
+import { validated } from '../middleware/validate';
 import { BackupFormatSchema, RESTORE_MAX_BYTES } from '../../shared/schemas/imports';
 import { HttpError, badRequest } from '../http-error';
 import type { BlobStore } from '../storage/types';
@@ -43,8 +43,8 @@ export function backupRoutes(ctx: AppContext, store: BlobStore) {
 
   // One archive: the database (its data directory on PGlite; the portable JSON dump on PostgreSQL or
   // with ?format=json) and every stored photo, preview and document, streamed as it is read.
-  r.get('/admin/backup', requireRole('admin'), validate({ query: BackupFormatSchema }), async (req, res) => {
-    const asked = (req.valid.query as { format?: 'data-dir' | 'json' }).format;
+  r.get('/admin/backup', requireRole('admin'), ...validated({ query: BackupFormatSchema }, async (req, res, v) => {
+    const asked = v.query.format;
     const format = asked ?? (database.pglite ? 'data-dir' : 'json');
     if (format === 'data-dir' && !database.pglite) throw badRequest('This server runs on PostgreSQL: its backup holds the JSON dump.', [{ path: 'query.format', message: 'Use json.' }]);
     const now = ctx.now();
@@ -62,7 +62,7 @@ export function backupRoutes(ctx: AppContext, store: BlobStore) {
       deps.log('[backup] the backup stopped part-way', e);
       res.destroy();
     }
-  });
+  }));
 
   r.post('/admin/restore', requireRole('admin'), async (req, res) => {
     // A JSON body would already have been read by the API's JSON parser: the file travels as bytes.

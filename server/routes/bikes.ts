@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { eq } from 'drizzle-orm';
 import type { AppContext } from '../app';
 import { currentUser, requireRole, signedIn } from '../middleware/auth';
-import { validate } from '../middleware/validate';
+import { validated } from '../middleware/validate';
 import { ReadCache } from '../cache/read-cache';
 import { bikeModels, bikes } from '../db/schema';
 import { IdParamsSchema } from '../../shared/schemas/common';
@@ -11,11 +11,7 @@ import {
   BikeListQuerySchema,
   BikeStatusChangeSchema,
   BikeUpdateSchema,
-  type BikeCreate,
-  type BikeListQuery,
-  type BikeStatusChange,
-  type BikeUpdate,
-} from '../../shared/schemas/bikes';
+  } from '../../shared/schemas/bikes';
 import { canSeeSite } from '../../shared/domain/policies';
 import { audit, diff } from '../audit';
 import { badRequest, conflict, forbidden, notFound } from '../http-error';
@@ -24,7 +20,7 @@ import { listDue } from '../services/due-list';
 import { rideVerdict } from '../services/ride-check';
 import { bikeTimeline } from '../services/timeline';
 import { replanAfter } from '../services/replan';
-import { CheckInSchema, type CheckIn } from '../../shared/schemas/due';
+import { CheckInSchema } from '../../shared/schemas/due';
 
 const fleetTaken = (n: string) =>
   conflict(`Fleet number ${n} is already on another bike. Fleet numbers must be unique.`, [
@@ -43,34 +39,33 @@ export function bikeRoutes(ctx: AppContext) {
     }
   }
 
-  r.get('/', signedIn(), validate({ query: BikeListQuerySchema }), async (req, res) => {
+  r.get('/', signedIn(), ...validated({ query: BikeListQuerySchema }, async (req, res, v) => {
     const { siteIds } = currentUser(req);
-    const q = req.valid.query as BikeListQuery;
+    const q = v.query;
     await ctx.readCache.send(req, res, ReadCache.key('bikes', siteIds, q, ctx.now()), async () => ({ items: await listBikes(db, siteIds, q) }));
-  });
+  }));
 
-  r.get('/:id', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
-    const { id } = req.valid.params as { id: string };
+  r.get('/:id', signedIn(), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
+    const { id } = v.params;
     const bike = await getBike(db, currentUser(req).siteIds, id);
     if (!bike) throw notFound('That bike');
     const due = await listDue(db, [bike.site.id], { bikeId: id, all: true }, ctx.now());
     res.json({ bike, readings: await readingsOf(db, id), due, ride: rideVerdict(bike, due) });
-  });
+  }));
 
-  r.get('/:id/timeline', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
-    const { id } = req.valid.params as { id: string };
+  r.get('/:id/timeline', signedIn(), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
+    const { id } = v.params;
     if (!(await getBike(db, currentUser(req).siteIds, id))) throw notFound('That bike');
     res.json({ items: await bikeTimeline(db, id) });
-  });
+  }));
 
   r.post(
     '/:id/check-ins',
     requireRole('desk', 'technician', 'manager', 'admin'),
-    validate({ params: IdParamsSchema, body: CheckInSchema }),
-    async (req, res) => {
+    ...validated({ params: IdParamsSchema, body: CheckInSchema }, async (req, res, v) => {
       const user = currentUser(req);
-      const { id } = req.valid.params as { id: string };
-      const { reading, grounded, defectId, bike, due } = await ctx.checkIns.record(user, id, req.valid.body as CheckIn, ctx.now());
+      const { id } = v.params;
+      const { reading, grounded, defectId, bike, due } = await ctx.checkIns.record(user, id, v.body, ctx.now());
       // A new reading moves km-based due dates; the bike's visit follows when it has work raised, or
       // when the check-in grounded it. The answer does not wait for the re-plan.
       if (grounded || due.some((d) => d.taskId)) void replanAfter(db, { siteIds: [bike.site.id], bikeIds: [id], why: `check-in of ${bike.fleetNumber}` }, ctx.now());
@@ -82,12 +77,12 @@ export function bikeRoutes(ctx: AppContext) {
         defectId,
         ride: rideVerdict(bike, due),
       });
-    },
+    }),
   );
 
-  r.post('/', requireRole('manager', 'admin'), validate({ body: BikeCreateSchema }), async (req, res) => {
+  r.post('/', requireRole('manager', 'admin'), ...validated({ body: BikeCreateSchema }, async (req, res, v) => {
     const user = currentUser(req);
-    const body = req.valid.body as BikeCreate;
+    const body = v.body;
     await checkRefs(user, body.modelId, body.siteId);
     const id = await db.transaction(async (tx) => {
       if (await fleetNumberTaken(tx, body.fleetNumber)) throw fleetTaken(body.fleetNumber);
@@ -96,12 +91,12 @@ export function bikeRoutes(ctx: AppContext) {
       return row.id;
     });
     res.status(201).json({ bike: await getBike(db, user.siteIds, id) });
-  });
+  }));
 
-  r.patch('/:id', requireRole('manager', 'admin'), validate({ params: IdParamsSchema, body: BikeUpdateSchema }), async (req, res) => {
+  r.patch('/:id', requireRole('manager', 'admin'), ...validated({ params: IdParamsSchema, body: BikeUpdateSchema }, async (req, res, v) => {
     const user = currentUser(req);
-    const { id } = req.valid.params as { id: string };
-    const body = req.valid.body as BikeUpdate;
+    const { id } = v.params;
+    const body = v.body;
     await checkRefs(user, body.modelId, body.siteId);
     await db.transaction(async (tx) => {
       const [before] = await tx.select().from(bikes).where(eq(bikes.id, id));
@@ -111,16 +106,15 @@ export function bikeRoutes(ctx: AppContext) {
       await audit(tx, { userId: user.id, action: 'update', entity: 'bike', entityId: id, changes: diff(before, body) });
     });
     res.json({ bike: await getBike(db, user.siteIds, id) });
-  });
+  }));
 
   r.post(
     '/:id/status',
     requireRole('manager', 'technician', 'admin'),
-    validate({ params: IdParamsSchema, body: BikeStatusChangeSchema }),
-    async (req, res) => {
+    ...validated({ params: IdParamsSchema, body: BikeStatusChangeSchema }, async (req, res, v) => {
       const user = currentUser(req);
-      const { id } = req.valid.params as { id: string };
-      const body = req.valid.body as BikeStatusChange;
+      const { id } = v.params;
+      const body = v.body;
       await db.transaction(async (tx) => {
         const [before] = await tx.select().from(bikes).where(eq(bikes.id, id));
         if (!before || !canSeeSite(user, before.siteId)) throw notFound('That bike');
@@ -136,7 +130,7 @@ export function bikeRoutes(ctx: AppContext) {
         });
       });
       res.json({ bike: await getBike(db, user.siteIds, id) });
-    },
+    }),
   );
   return r;
 }

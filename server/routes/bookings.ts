@@ -1,10 +1,10 @@
 import express, { Router, type NextFunction, type Request, type Response } from 'express';
 import type { AppContext } from '../app';
 import { currentUser, requireRole, signedIn } from '../middleware/auth';
-import { validate } from '../middleware/validate';
+import { validated } from '../middleware/validate';
 import { IdParamsSchema } from '../../shared/schemas/common';
-import { IMPORT_MAX_BYTES, ImportBodySchema, type ImportBody } from '../../shared/schemas/imports';
-import { BookingCreateSchema, BookingListQuerySchema, FeedCreateSchema, type BookingCreate, type BookingListQuery, type FeedCreate } from '../../shared/schemas/bookings';
+import { IMPORT_MAX_BYTES, ImportBodySchema } from '../../shared/schemas/imports';
+import { BookingCreateSchema, BookingListQuerySchema, FeedCreateSchema } from '../../shared/schemas/bookings';
 import { createBooking, deleteBooking, listBookings } from '../services/bookings';
 import { previewBookingImport, runBookingImport } from '../services/bookings-import';
 import { createFeed, deleteFeed, listFeeds } from '../services/booking-feeds';
@@ -20,39 +20,38 @@ const BOOKERS = ['desk', 'manager', 'admin'] as const;
 export function bookingRoutes(ctx: AppContext) {
   const r = Router();
   const db = ctx.database.db;
-  const id = (req: Request) => (req.valid.params as { id: string }).id;
 
-  r.get('/bookings', signedIn(), validate({ query: BookingListQuerySchema }), async (req, res) => {
-    res.json(await listBookings(db, currentUser(req), req.valid.query as BookingListQuery, ctx.now()));
-  });
+  r.get('/bookings', signedIn(), ...validated({ query: BookingListQuerySchema }, async (req, res, v) => {
+    res.json(await listBookings(db, currentUser(req), v.query, ctx.now()));
+  }));
 
-  r.post('/bookings', requireRole(...BOOKERS), validate({ body: BookingCreateSchema }), async (req, res) => {
-    res.status(201).json(await createBooking(db, currentUser(req), req.valid.body as BookingCreate, ctx.now()));
-  });
+  r.post('/bookings', requireRole(...BOOKERS), ...validated({ body: BookingCreateSchema }, async (req, res, v) => {
+    res.status(201).json(await createBooking(db, currentUser(req), v.body, ctx.now()));
+  }));
 
-  const csv = [csvText, asBody, validate({ body: ImportBodySchema })];
-  r.post('/bookings/import/preview', requireRole(...BOOKERS), ...csv, async (req, res) => {
-    res.json(await previewBookingImport(db, currentUser(req), (req.valid.body as ImportBody).csv));
-  });
+  const csv = [csvText, asBody];
+  r.post('/bookings/import/preview', requireRole(...BOOKERS), ...csv, ...validated({ body: ImportBodySchema }, async (req, res, v) => {
+    res.json(await previewBookingImport(db, currentUser(req), v.body.csv));
+  }));
 
-  r.post('/bookings/import', requireRole(...BOOKERS), ...csv, async (req, res) => {
-    res.status(201).json(await runBookingImport(db, currentUser(req), (req.valid.body as ImportBody).csv, ctx.now()));
-  });
+  r.post('/bookings/import', requireRole(...BOOKERS), ...csv, ...validated({ body: ImportBodySchema }, async (req, res, v) => {
+    res.status(201).json(await runBookingImport(db, currentUser(req), v.body.csv, ctx.now()));
+  }));
 
-  r.delete('/bookings/:id', requireRole(...BOOKERS), validate({ params: IdParamsSchema }), async (req, res) => {
-    res.json(await deleteBooking(db, currentUser(req), id(req), ctx.now()));
-  });
+  r.delete('/bookings/:id', requireRole(...BOOKERS), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
+    res.json(await deleteBooking(db, currentUser(req), v.params.id, ctx.now()));
+  }));
 
   r.get('/booking-feeds', requireRole('manager', 'admin'), async (req, res) => {
     res.json({ items: await listFeeds(db, currentUser(req), ctx.now()) });
   });
 
-  r.post('/booking-feeds', requireRole('manager', 'admin'), validate({ body: FeedCreateSchema }), async (req, res) => {
-    res.status(201).json(await createFeed(db, currentUser(req), req.valid.body as FeedCreate, ctx.now()));
-  });
+  r.post('/booking-feeds', requireRole('manager', 'admin'), ...validated({ body: FeedCreateSchema }, async (req, res, v) => {
+    res.status(201).json(await createFeed(db, currentUser(req), v.body, ctx.now()));
+  }));
 
-  r.delete('/booking-feeds/:id', requireRole('manager', 'admin'), validate({ params: IdParamsSchema }), async (req, res) => {
-    res.json(await deleteFeed(db, currentUser(req), id(req), ctx.now()));
-  });
+  r.delete('/booking-feeds/:id', requireRole('manager', 'admin'), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
+    res.json(await deleteFeed(db, currentUser(req), v.params.id, ctx.now()));
+  }));
   return r;
 }

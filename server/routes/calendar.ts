@@ -5,7 +5,7 @@ import ical, { ICalEventStatus } from 'ical-generator';
 import { z } from 'zod';
 import type { AppContext } from '../app';
 import { currentUser, publicRoute, signedIn } from '../middleware/auth';
-import { validate } from '../middleware/validate';
+import { validated } from '../middleware/validate';
 import { users } from '../db/schema';
 import { loadSessionUser } from '../services/users';
 import { listDue } from '../services/due-list';
@@ -39,8 +39,8 @@ export function calendarRoutes(ctx: AppContext) {
   });
 
   const TokenParams = z.object({ token: z.string().regex(/^[0-9a-f-]{36}\.\d{1,9}\.[A-Za-z0-9_-]{43}\.ics$/) });
-  r.get('/:token', publicRoute(), validate({ params: TokenParams }), async (req, res) => {
-    const [userId, v, mac] = (req.valid.params as { token: string }).token.replace(/\.ics$/, '').split('.');
+  r.get('/:token', publicRoute(), ...validated({ params: TokenParams }, async (req, res, { params }) => {
+    const [userId, v, mac] = params.token.replace(/\.ics$/, '').split('.');
     const [row] = await db.select({ v: users.calendarFeedVersion }).from(users).where(eq(users.id, userId));
     const expected = row ? Buffer.from(sign(ctx.sessionSecret, userId, row.v)) : Buffer.alloc(43);
     if (!row || Number(v) !== row.v || !timingSafeEqual(expected, Buffer.from(mac))) throw notFound('That calendar feed');
@@ -79,6 +79,6 @@ export function calendarRoutes(ctx: AppContext) {
     }
     res.setHeader('Content-Type', 'text/calendar; charset=utf-8');
     res.send(cal.toString());
-  });
+  }));
   return r;
 }

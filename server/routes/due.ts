@@ -2,8 +2,8 @@ import { Router } from 'express';
 import Papa from 'papaparse';
 import type { AppContext } from '../app';
 import { currentUser, signedIn } from '../middleware/auth';
-import { validate } from '../middleware/validate';
-import { DueQuerySchema, type DueQuery } from '../../shared/schemas/due';
+import { validated } from '../middleware/validate';
+import { DueQuerySchema } from '../../shared/schemas/due';
 import { listDue } from '../services/due-list';
 import { ReadCache } from '../cache/read-cache';
 import { todayInZone } from '../../shared/domain/dates';
@@ -14,19 +14,19 @@ export function dueRoutes(ctx: AppContext) {
   const r = Router();
   const db = ctx.database.db;
 
-  r.get('/due', signedIn(), validate({ query: DueQuerySchema }), async (req, res) => {
+  r.get('/due', signedIn(), ...validated({ query: DueQuerySchema }, async (req, res, v) => {
     const { siteIds } = currentUser(req);
-    const q = req.valid.query as DueQuery;
+    const q = v.query;
     const now = ctx.now();
     await ctx.readCache.send(req, res, ReadCache.key('due', siteIds, q, now), async () => ({
       items: await listDue(db, siteIds, q, now),
       today: todayInZone(ctx.config.SCHEDULE_TZ, now),
     }));
-  });
+  }));
 
   // RFC 4180: CRLF line ends, fields with commas, quotes or line breaks quoted, quotes doubled.
-  r.get('/due.csv', signedIn(), validate({ query: DueQuerySchema }), async (req, res) => {
-    const q = req.valid.query as DueQuery;
+  r.get('/due.csv', signedIn(), ...validated({ query: DueQuerySchema }, async (req, res, v) => {
+    const q = v.query;
     const items = await listDue(db, currentUser(req).siteIds, q, ctx.now());
     const rows = items.map((d) => [
       d.fleetNumber,
@@ -45,6 +45,6 @@ export function dueRoutes(ctx: AppContext) {
     res.setHeader('Content-Type', 'text/csv; charset=utf-8; header=present');
     res.setHeader('Content-Disposition', `attachment; filename="due-within-${q.within}-days.csv"`);
     res.send(`${csv}\r\n`);
-  });
+  }));
   return r;
 }

@@ -1,8 +1,8 @@
 import express, { Router, type NextFunction, type Request, type Response } from 'express';
 import type { AppContext } from '../app';
 import { currentUser, requireRole } from '../middleware/auth';
-import { validate } from '../middleware/validate';
-import { IMPORT_MAX_BYTES, ImportBodySchema, ImportParamsSchema, type ImportBody, type ImportKind } from '../../shared/schemas/imports';
+import { validated } from '../middleware/validate';
+import { IMPORT_MAX_BYTES, ImportBodySchema, ImportParamsSchema } from '../../shared/schemas/imports';
 import { previewImport, runImport } from '../services/imports';
 
 // The API reads JSON bodies up to 1 MB before any router sees them, so a larger file comes as the
@@ -16,16 +16,15 @@ const asBody = (req: Request, _res: Response, next: NextFunction) => {
 export function importRoutes(ctx: AppContext) {
   const r = Router();
   const db = ctx.database.db;
-  const input = [csvText, asBody, validate({ params: ImportParamsSchema, body: ImportBodySchema })];
+  const input = [csvText, asBody];
+  const shapes = { params: ImportParamsSchema, body: ImportBodySchema };
 
-  r.post('/import/:kind/preview', requireRole('manager', 'admin'), ...input, async (req, res) => {
-    const { kind } = req.valid.params as { kind: ImportKind };
-    res.json(await previewImport(db, currentUser(req), kind, (req.valid.body as ImportBody).csv, ctx.now()));
-  });
+  r.post('/import/:kind/preview', requireRole('manager', 'admin'), ...input, ...validated(shapes, async (req, res, { params, body }) => {
+    res.json(await previewImport(db, currentUser(req), params.kind, body.csv, ctx.now()));
+  }));
 
-  r.post('/import/:kind', requireRole('manager', 'admin'), ...input, async (req, res) => {
-    const { kind } = req.valid.params as { kind: ImportKind };
-    res.json(await runImport(db, currentUser(req), kind, (req.valid.body as ImportBody).csv, ctx.now()));
-  });
+  r.post('/import/:kind', requireRole('manager', 'admin'), ...input, ...validated(shapes, async (req, res, { params, body }) => {
+    res.json(await runImport(db, currentUser(req), params.kind, body.csv, ctx.now()));
+  }));
   return r;
 }

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import type { AppContext } from '../app';
 import { currentUser, signedIn } from '../middleware/auth';
-import { validate } from '../middleware/validate';
+import { validated } from '../middleware/validate';
 import { IdParamsSchema } from '../../shared/schemas/common';
 import { notFound } from '../http-error';
 import { serviceRecordOf } from '../services/service-history';
@@ -19,17 +19,17 @@ export function recordRoutes(ctx: AppContext) {
     return record;
   };
 
-  r.get('/bikes/:id/service-record', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
-    const { id } = req.valid.params as { id: string };
+  r.get('/bikes/:id/service-record', signedIn(), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
+    const { id } = v.params;
     res.json(await recordOf(currentUser(req).siteIds, id));
-  });
+  }));
 
-  r.get('/bikes/:id/history.csv', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
-    const { id } = req.valid.params as { id: string };
+  r.get('/bikes/:id/history.csv', signedIn(), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
+    const { id } = v.params;
     const record = await recordOf(currentUser(req).siteIds, id);
     res.setHeader('Content-Type', 'text/csv; charset=utf-8; header=present');
     res.setHeader('Content-Disposition', `attachment; filename="${fileSafe(record.bike.fleetNumber)}-history.csv"`);
     res.send(await historyCsv(db, record));
-  });
+  }));
   return r;
 }

@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { asc, eq } from 'drizzle-orm';
 import type { AppContext } from '../app';
 import { currentUser, requireRole, signedIn } from '../middleware/auth';
-import { validate } from '../middleware/validate';
+import { validated } from '../middleware/validate';
 import { bikeModels, sites } from '../db/schema';
 import { SiteCreateSchema } from '../../shared/schemas/reference';
 import { IdParamsSchema } from '../../shared/schemas/common';
@@ -22,8 +22,8 @@ export function referenceRoutes(ctx: AppContext) {
     res.json({ items: rows.filter((s) => mine.has(s.id)).map(({ id, name, timeZone, bays }) => ({ id, name, timeZone, bays })) });
   });
 
-  r.post('/sites', requireRole('admin'), validate({ body: SiteCreateSchema }), async (req, res) => {
-    const body = req.valid.body as { name: string; timeZone: string; bays: number };
+  r.post('/sites', requireRole('admin'), ...validated({ body: SiteCreateSchema }, async (req, res, v) => {
+    const body = v.body;
     const site = await db.transaction(async (tx) => {
       const [dupe] = await tx.select({ id: sites.id }).from(sites).where(eq(sites.name, body.name));
       if (dupe) throw conflict('A site already has that name.', [{ path: 'name', message: 'Already in use.' }]);
@@ -34,11 +34,11 @@ export function referenceRoutes(ctx: AppContext) {
       return row;
     });
     res.status(201).json({ site: { id: site.id, name: site.name, timeZone: site.timeZone, bays: site.bays } });
-  });
+  }));
 
-  r.patch('/sites/:id', requireRole('admin'), validate({ params: IdParamsSchema, body: SiteCreateSchema.partial() }), async (req, res) => {
-    const { id } = req.valid.params as { id: string };
-    const body = req.valid.body as Partial<{ name: string; timeZone: string; bays: number }>;
+  r.patch('/sites/:id', requireRole('admin'), ...validated({ params: IdParamsSchema, body: SiteCreateSchema.partial() }, async (req, res, v) => {
+    const { id } = v.params;
+    const body = v.body;
     const user = currentUser(req);
     const row = await db.transaction(async (tx) => {
       const [exists] = await tx.select().from(sites).where(eq(sites.id, id)).for('update');
@@ -59,7 +59,7 @@ export function referenceRoutes(ctx: AppContext) {
     });
     if (body.bays !== undefined || body.timeZone !== undefined) await replanAfter(db, { siteIds: [id], why: 'site changed' }, ctx.now());
     res.json({ site: { id: row.id, name: row.name, timeZone: row.timeZone, bays: row.bays } });
-  });
+  }));
 
   r.get('/models', signedIn(), async (_req, res) => {
     const rows = await db.select().from(bikeModels).orderBy(asc(bikeModels.name));

@@ -3,7 +3,7 @@ import { eq } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppContext } from '../app';
 import { currentUser, requireRole, signedIn } from '../middleware/auth';
-import { validate } from '../middleware/validate';
+import { validated } from '../middleware/validate';
 import { settings } from '../db/schema';
 import { DEFAULT_LIMITS } from '../../shared/domain/limits';
 import { audit } from '../audit';
@@ -27,13 +27,13 @@ export function settingsRoutes(ctx: AppContext) {
   r.get('/settings', signedIn(), async (_req, res) => {
     res.json({ settings: await readSettings(db), sources: { tyreTreadMinMm: SOURCE } });
   });
-  r.put('/admin/settings', requireRole('admin'), validate({ body: SettingsSchema }), async (req, res) => {
-    const body = req.valid.body as Settings;
+  r.put('/admin/settings', requireRole('admin'), ...validated({ body: SettingsSchema }, async (req, res, v) => {
+    const body = v.body;
     await db.transaction(async (tx) => {
       await tx.insert(settings).values({ key: 'tyre_tread_min_mm', value: body.tyreTreadMinMm }).onConflictDoUpdate({ target: settings.key, set: { value: body.tyreTreadMinMm, updatedAt: ctx.now() } });
       await audit(tx, { userId: currentUser(req).id, action: 'update', entity: 'settings', changes: body });
     });
     res.json({ settings: await readSettings(db), sources: { tyreTreadMinMm: SOURCE } });
-  });
+  }));
   return r;
 }

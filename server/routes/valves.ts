@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { ReadCache } from '../cache/read-cache';
 import type { AppContext } from '../app';
 import { currentUser, requireRole, signedIn } from '../middleware/auth';
-import { validate } from '../middleware/validate';
+import { validated } from '../middleware/validate';
 import { IdParamsSchema, IdSchema } from '../../shared/schemas/common';
 import { StockAdjustSchema, StockMinSchema } from '../../shared/schemas/valves';
 import { canSeeSite } from '../../shared/domain/policies';
@@ -25,13 +25,13 @@ export function valveRoutes(ctx: AppContext) {
     if (!canSeeSite(currentUser(req), siteId)) throw forbidden('That site is not one of yours.');
   };
 
-  r.get('/bikes/:id/valves', signedIn(), validate({ params: IdParamsSchema }), async (req, res) => {
-    const { id } = req.valid.params as { id: string };
+  r.get('/bikes/:id/valves', signedIn(), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
+    const { id } = v.params;
     const bike = await getBike(db, currentUser(req).siteIds, id);
     if (!bike) throw notFound('That bike');
     const [t] = await trendsForBikes(db, { bikeIds: [id] });
     res.json({ valves: t?.valves ?? [], adjuster: t?.adjuster ?? '' });
-  });
+  }));
 
   r.get('/valves/rollup', requireRole('manager', 'admin', 'technician'), async (req, res) => {
     const { siteIds } = currentUser(req);
@@ -43,20 +43,20 @@ export function valveRoutes(ctx: AppContext) {
     await ctx.readCache.send(req, res, ReadCache.key('valve-warnings', siteIds, null, ctx.now()), async () => ({ items: await valveWarningsFor(db, siteIds) }), 'valves');
   });
 
-  r.get('/stock/shims', requireRole('technician', 'manager', 'admin'), validate({ query: SiteQuery }), async (req, res) => {
-    const { siteId } = req.valid.query as { siteId: string };
+  r.get('/stock/shims', requireRole('technician', 'manager', 'admin'), ...validated({ query: SiteQuery }, async (req, res, v) => {
+    const { siteId } = v.query;
     mySite(req, siteId);
     res.json({ items: await stockAt(db, siteId) });
-  });
+  }));
 
-  r.get('/stock/shims/reorder', requireRole('technician', 'manager', 'admin'), validate({ query: SiteQuery }), async (req, res) => {
-    const { siteId } = req.valid.query as { siteId: string };
+  r.get('/stock/shims/reorder', requireRole('technician', 'manager', 'admin'), ...validated({ query: SiteQuery }, async (req, res, v) => {
+    const { siteId } = v.query;
     mySite(req, siteId);
     res.json({ items: await reorderList(db, siteId) });
-  });
+  }));
 
-  r.post('/stock/shims/adjust', requireRole('technician', 'manager'), validate({ body: StockAdjustSchema }), async (req, res) => {
-    const b = req.valid.body as z.infer<typeof StockAdjustSchema>;
+  r.post('/stock/shims/adjust', requireRole('technician', 'manager'), ...validated({ body: StockAdjustSchema }, async (req, res, v) => {
+    const b = v.body;
     mySite(req, b.siteId);
     const user = currentUser(req);
     await db.transaction(async (tx) => {
@@ -64,14 +64,14 @@ export function valveRoutes(ctx: AppContext) {
       await audit(tx, { userId: user.id, action: 'stock-adjust', entity: 'shim-stock', entityId: b.siteId, changes: b });
     });
     res.json({ items: await stockAt(db, b.siteId) });
-  });
+  }));
 
-  r.put('/stock/shims/minimum', requireRole('manager'), validate({ body: StockMinSchema }), async (req, res) => {
-    const b = req.valid.body as z.infer<typeof StockMinSchema>;
+  r.put('/stock/shims/minimum', requireRole('manager'), ...validated({ body: StockMinSchema }, async (req, res, v) => {
+    const b = v.body;
     mySite(req, b.siteId);
     await setMinimum(db, b.siteId, b.sizeMm, b.minCount);
     await audit(db, { userId: currentUser(req).id, action: 'stock-minimum', entity: 'shim-stock', entityId: b.siteId, changes: b });
     res.json({ items: await stockAt(db, b.siteId) });
-  });
+  }));
   return r;
 }
