@@ -9,11 +9,10 @@ import type { ChangeFeed, Db } from '../db/client';
 /**
  * 'fleet' moves on with any write to the fleet's data; 'people' only with people, their sites and the
  * sites; 'valves' only with what valve trends are made of (valve checks and readings, services done,
- * bikes, models and their plans), not with every check-in; 'plan' with the workshop's visits and
- * the parts each service uses.
+ * bikes, models and their plans), not with every check-in.
  */
-export type DataScope = 'fleet' | 'people' | 'valves' | 'plan';
-const SCOPES: readonly DataScope[] = ['fleet', 'people', 'valves', 'plan'];
+export type DataScope = 'fleet' | 'people' | 'valves';
+const SCOPES: readonly DataScope[] = ['fleet', 'people', 'valves'];
 
 /** A cached answer: the JSON body as the bytes sent, and the data version it was read at. */
 interface Entry {
@@ -123,8 +122,8 @@ export class ReadCache {
   }
 
   /**
-   * A value worked out from the data of several scopes (e.g. a site's parts simulation), kept until
-   * any of them moves on. The versions are read before the data, as for answers. The value is
+   * A value worked out from the data of some scopes (e.g. a site's parts simulation), kept until
+   * any of them moves on; the key names whatever else it depends on. The versions are read before the data, as for answers. The value is
    * shared: callers must not change it.
    */
   async remember<T>(key: string, scopes: readonly DataScope[], compute: () => Promise<T>): Promise<T> {

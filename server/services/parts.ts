@@ -256,9 +256,18 @@ async function forecastInputs(db: DbOrTx, siteId: string, today: string, horizon
   return [...byBike.values()].sort((a, b) => (a.bikeId < b.bikeId ? -1 : 1));
 }
 
+/** The site's visits as they stand: their count and the latest change to any of them. */
+async function visitsSignature(db: DbOrTx, siteId: string) {
+  const [v] = await db
+    .select({ n: sql<number>`count(*)::int`, at: sql<string | null>`max(${visits.updatedAt})::text` })
+    .from(visits)
+    .where(eq(visits.siteId, siteId));
+  return `${v.n}@${v.at ?? '-'}`;
+}
+
 /**
  * The site's forecast. With a cache, the simulation (the costly part) is kept per site, day and
- * horizon until the fleet, the plan or a service's parts change; the shelf is read fresh each time.
+ * horizon until the fleet's data, the site's visits or a service's parts change; the shelf is read fresh each time.
  */
 export async function forecastFor(db: DbOrTx, user: SessionUser, siteId: string, weeks: number, now: Date, cache?: ReadCache): Promise<Forecast> {
   siteOf(user, siteId);
@@ -266,7 +275,9 @@ export async function forecastFor(db: DbOrTx, user: SessionUser, siteId: string,
   if (!site) throw notFound('That site');
   const today = todayInZone(site.timeZone, now);
   const simulate = async () => simulatePartUse(await forecastInputs(db, siteId, today, weeks * 7), { today, weeks, seed: siteId });
-  const sim = cache ? await cache.remember(`parts-simulation\n${siteId}\n${today}\n${weeks}`, ['fleet', 'plan'], simulate) : await simulate();
+  // The plan's visits are not counted in a data version (a re-plan must not take the fleet's lock
+  // early): their number and latest change at the site name them in the key instead.
+  const sim = cache ? await cache.remember(`parts-simulation\n${siteId}\n${today}\n${weeks}\n${await visitsSignature(db, siteId)}`, ['fleet'], simulate) : await simulate();
   const stock = await stockLines(db, siteId);
   const catalogue = new Map((await db.select({ id: parts.id, leadTimeDays: parts.leadTimeDays, packSize: parts.packSize }).from(parts)).map((p) => [p.id, p]));
   const lineOf = new Map(sim.lines.map((l) => [l.partId, l]));
