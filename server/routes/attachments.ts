@@ -4,7 +4,7 @@ import type { AppContext } from '../app';
 import type { BlobStore } from '../storage/types';
 import { newBlobKey } from '../storage/keys';
 import { currentUser, requireRole, signedIn } from '../middleware/auth';
-import { validate, validated } from '../middleware/validate';
+import { validated } from '../middleware/validate';
 import { singleUpload } from '../middleware/upload';
 import { attachments } from '../db/schema';
 import { audit } from '../audit';
@@ -14,7 +14,6 @@ import {
   AttachmentFieldsSchema,
   AttachmentListQuerySchema,
   DEFAULT_UPLOAD_MAX_BYTES,
-  type AttachmentFields,
 } from '../../shared/schemas/attachments';
 import { canSeeSite } from '../../shared/domain/policies';
 import { SELF_REMOVE_HOURS, canRemoveAttachment, inlineDisposition } from '../../shared/domain/attachments';
@@ -27,8 +26,6 @@ export interface AttachmentRouteOptions {
   maxBytes?: number;
 }
 
-const idOf = (req: Request) => (req.valid.params as { id: string }).id;
-
 export function attachmentRoutes(ctx: AppContext, store: BlobStore, opts: AttachmentRouteOptions = {}) {
   const r = Router();
   const db = ctx.database.db;
@@ -36,14 +33,14 @@ export function attachmentRoutes(ctx: AppContext, store: BlobStore, opts: Attach
   const logError = (line: string, err: unknown) => log.error({ err }, line);
 
   // Another site's bike answers as missing, so its existence is not given away.
-  async function visibleBike(req: Request) {
-    const siteId = await bikeSite(db, idOf(req));
+  async function visibleBike(req: Request, bikeId: string) {
+    const siteId = await bikeSite(db, bikeId);
     if (!siteId || !canSeeSite(currentUser(req), siteId)) throw notFound('That bike');
     return siteId;
   }
 
-  async function visibleAttachment(req: Request) {
-    const row = await findAttachment(db, idOf(req));
+  async function visibleAttachment(req: Request, id: string) {
+    const row = await findAttachment(db, id);
     if (!row || !canSeeSite(currentUser(req), row.bikeSiteId)) throw notFound('That photo or document');
     return row;
   }
@@ -64,22 +61,20 @@ export function attachmentRoutes(ctx: AppContext, store: BlobStore, opts: Attach
   r.post(
     '/bikes/:id/attachments',
     requireRole('desk', 'technician', 'manager'),
-    validate({ params: IdParamsSchema }),
     // Checked before the body is read, so nobody can make the server buffer files for a bike they cannot see.
-    async (req, res, next) => {
-      res.locals.siteId = await visibleBike(req);
+    ...validated({ params: IdParamsSchema }, async (req, res, v, next) => {
+      res.locals.siteId = await visibleBike(req, v.params.id);
       next();
-    },
+    }),
     singleUpload(maxBytes),
-    // validate() replaces req.valid, so the params are named again beside the form fields.
-    validate({ params: IdParamsSchema, body: AttachmentFieldsSchema }),
-    async (req, res) => {
+    // Parsed again after multer: the form fields are only there now.
+    ...validated({ params: IdParamsSchema, body: AttachmentFieldsSchema }, async (req, res, v) => {
       const user = currentUser(req);
-      const bikeId = idOf(req);
+      const bikeId = v.params.id;
       const file = req.file;
       if (!file || file.size === 0)
         throw badRequest('Choose a photo or a PDF to upload.', [{ path: 'file', message: 'No file was sent.' }]);
-      const links = req.valid.body as AttachmentFields;
+      const links = v.body;
       await checkLinks(db, bikeId, links);
       const info = await inspectFile(file.buffer);
       const siteId = res.locals.siteId as string;
@@ -123,29 +118,29 @@ export function attachmentRoutes(ctx: AppContext, store: BlobStore, opts: Attach
         await Promise.allSettled([store.delete(storageKey), thumbKey ? store.delete(thumbKey) : undefined]);
         throw e;
       }
-    },
+    }),
   );
 
   r.get('/bikes/:id/attachments', signedIn(), ...validated({ params: IdParamsSchema, query: AttachmentListQuerySchema }, async (req, res, v) => {
-    await visibleBike(req);
-    const rows = await listAttachments(db, idOf(req), v.query);
+    await visibleBike(req, v.params.id);
+    const rows = await listAttachments(db, v.params.id, v.query);
     res.json({ items: rows.map(toAttachment) });
   }));
 
   r.get('/attachments/:id', signedIn(), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
-    const { a } = await visibleAttachment(req);
+    const { a } = await visibleAttachment(req, v.params.id);
     await serve(res, a.storageKey, a.mime, inlineDisposition(a.originalName, a.mime));
   }));
 
   r.get('/attachments/:id/thumb', signedIn(), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
-    const { a } = await visibleAttachment(req);
+    const { a } = await visibleAttachment(req, v.params.id);
     if (!a.thumbKey) throw notFound('A preview of this file');
     await serve(res, a.thumbKey, THUMB_MIME, inlineDisposition(a.originalName, THUMB_MIME, '-preview'));
   }));
 
   r.delete('/attachments/:id', requireRole('desk', 'technician', 'manager'), ...validated({ params: IdParamsSchema }, async (req, res, v) => {
     const user = currentUser(req);
-    const { a, bikeSiteId } = await visibleAttachment(req);
+    const { a, bikeSiteId } = await visibleAttachment(req, v.params.id);
     if (!canRemoveAttachment(user, { siteId: bikeSiteId, uploadedBy: a.uploadedBy, createdAt: a.createdAt }, ctx.now()))
       throw forbidden(`Only a manager can remove this. You can remove a photo you added yourself for ${SELF_REMOVE_HOURS} hours.`);
     await db.transaction(async (tx) => {
