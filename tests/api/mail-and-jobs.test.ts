@@ -81,15 +81,22 @@ describe('claimed time slots', () => {
     'on PostgreSQL, a live run holds its slot against other instances; once its connection dies the slot is claimed at once',
     async () => {
       const other = await openDatabase({ databaseUrl: process.env.TEST_DATABASE_URL!, migrate: false });
+      // The first instance names its connections, so only its own is ended below: other test runs
+      // (the browser tests' servers) may hold claims on the same database at the same moment.
+      const name = `lashline-claim-test-${process.pid}-${Date.now()}`;
+      const url = new URL(process.env.TEST_DATABASE_URL!);
+      url.searchParams.set('application_name', name);
+      const mine = await openDatabase({ databaseUrl: url.toString(), migrate: false });
       try {
-        const first = slotClaimer(t.database, 'instance-1');
+        const first = slotClaimer(mine, 'instance-1');
         const second = slotClaimer(other, 'instance-2');
         const dying = await first.claim('due-scan', 'slot-killed', now);
         expect(dying).not.toBeNull();
         expect(await second.claim('due-scan', 'slot-killed', now)).toBeNull();
         // The first instance dies: its connection, and the row lock it held, go with it.
         const killed = await other.pool!.query(
-          `select pg_terminate_backend(pid) from pg_stat_activity where datname = current_database() and state like 'idle in transaction%' and query like '%skip locked%'`,
+          `select pg_terminate_backend(pid) from pg_stat_activity where datname = current_database() and application_name = $1 and state like 'idle in transaction%' and query like '%skip locked%'`,
+          [name],
         );
         expect(killed.rowCount).toBe(1);
         const run = await second.claim('due-scan', 'slot-killed', now);
@@ -102,6 +109,7 @@ describe('claimed time slots', () => {
         expect((await runOf('slot-killed')).result).toEqual({ summary: 'done' });
       } finally {
         await other.close();
+        await mine.close().catch(() => undefined);
       }
     },
   );
