@@ -91,6 +91,18 @@ async function measure(page: Page, base: string, s: Screen): Promise<ScreenFigur
   };
 }
 
+/** Chromium on a fresh profile of its own, closed and removed afterwards. */
+async function withBrowser<T>(viewport: { width: number; height: number }, fn: (context: BrowserContext) => Promise<T>): Promise<T> {
+  const profile = await mkdtemp(join(tmpdir(), 'lashline-bench-'));
+  const context = await chromium.launchPersistentContext(profile, { executablePath: CHROMIUM, headless: true, viewport, args: ARGS });
+  try {
+    return await fn(context);
+  } finally {
+    await context.close();
+    await rm(profile, { recursive: true, force: true });
+  }
+}
+
 /** A page signed in as the manager through the sign-in screen, on This week. */
 async function signedInPage(context: BrowserContext, base: string): Promise<Page> {
   const page = context.pages()[0] ?? (await context.newPage());
@@ -105,9 +117,7 @@ async function signedInPage(context: BrowserContext, base: string): Promise<Page
 
 /** Signs in as the manager through the sign-in screen, then opens each screen afresh. */
 export async function browserBench(base: string): Promise<ScreenFigures[]> {
-  const profile = await mkdtemp(join(tmpdir(), 'lashline-bench-'));
-  const context = await chromium.launchPersistentContext(profile, { executablePath: CHROMIUM, headless: true, viewport: { width: 1280, height: 900 }, args: ARGS });
-  try {
+  return withBrowser({ width: 1280, height: 900 }, async (context) => {
     await context.addInitScript({ content: pageScript(installPageMetrics, FIRST_TABLES) });
     const page = await signedInPage(context, base);
     // The board signing in lands on has finished loading (it shows its rows once every part is in),
@@ -117,10 +127,7 @@ export async function browserBench(base: string): Promise<ScreenFigures[]> {
     const out: ScreenFigures[] = [];
     for (const s of SCREENS) out.push(await measure(page, base, s));
     return out;
-  } finally {
-    await context.close();
-    await rm(profile, { recursive: true, force: true });
-  }
+  });
 }
 
 export interface OfflineCardFigures {
@@ -135,10 +142,8 @@ export interface OfflineCardFigures {
  * the service worker's precache and the card from the answers kept on the device.
  */
 export async function offlineCardBench(base: string, runs = 5): Promise<OfflineCardFigures> {
-  const profile = await mkdtemp(join(tmpdir(), 'lashline-bench-'));
   const viewport = { width: 1024, height: 768 };
-  const context = await chromium.launchPersistentContext(profile, { executablePath: CHROMIUM, headless: true, viewport, args: ARGS });
-  try {
+  return withBrowser(viewport, async (context) => {
     const page = await signedInPage(context, base);
     const taskId = await page.evaluate(async () => {
       const items = (await (await fetch('/api/tasks?status=active')).json()).items as { id: string; category: string }[];
@@ -162,8 +167,5 @@ export async function offlineCardBench(base: string, runs = 5): Promise<OfflineC
       runsMs.push(await page.evaluate(() => performance.now()));
     }
     return { viewport: `${viewport.width}×${viewport.height}`, runsMs, valves: await valves.count() };
-  } finally {
-    await context.close();
-    await rm(profile, { recursive: true, force: true });
-  }
+  });
 }

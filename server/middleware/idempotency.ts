@@ -57,12 +57,12 @@ export function idempotency(ctx: AppContext) {
       }
       const fingerprint = fingerprintOf(req);
       const mine = and(eq(idempotentRequests.userId, user.id), eq(idempotentRequests.key, key));
-      // A key older than a day is forgotten: its row gives way to this request.
-      await db.delete(idempotentRequests).where(and(mine, lt(idempotentRequests.createdAt, new Date(now.getTime() - KEEP_MS))));
+      // One statement claims the key: a new row, or the row of a key older than a day (forgotten).
+      const claim = { fingerprint, method: req.method, path: req.originalUrl, status: null, contentType: null, body: null, createdAt: now };
       const claimed = await db
         .insert(idempotentRequests)
-        .values({ userId: user.id, key, fingerprint, method: req.method, path: req.originalUrl, createdAt: now })
-        .onConflictDoNothing()
+        .values({ userId: user.id, key, ...claim })
+        .onConflictDoUpdate({ target: [idempotentRequests.userId, idempotentRequests.key], set: claim, setWhere: lt(idempotentRequests.createdAt, new Date(now.getTime() - KEEP_MS)) })
         .returning({ key: idempotentRequests.key });
       if (!claimed.length) {
         const [held] = await db.select().from(idempotentRequests).where(mine);
